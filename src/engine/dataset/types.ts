@@ -87,6 +87,11 @@ export interface EdgeList {
   /** null when the edges file has no weight column (all weights 1). */
   weight: Float32Array | null;
   count: number;
+  /**
+   * Slice index of each edge, from the edges file's time column. Absent when the file has no
+   * time column: an edge then belongs to the slice of its later endpoint (see edgeSliceOf).
+   */
+  edgeSlice?: Int32Array;
 }
 
 export interface Dataset {

@@ -39,3 +39,36 @@ export async function appendLines(target: string, lines: string[]): Promise<void
     await handle.close();
   }
 }
+
+/**
+ * Like writeFileAtomic, for content too large to hold as one string: the chunks are written
+ * one after another into the temporary file, which is renamed over the target only at the end.
+ */
+export async function writeChunksAtomic(
+  target: string,
+  chunks: Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>,
+): Promise<void> {
+  const dir = path.dirname(target);
+  const temporaryPath = path.join(dir, `.${path.basename(target)}.${randomBytes(6).toString('hex')}.tmp`);
+  let handle: fs.FileHandle | undefined;
+  try {
+    handle = await fs.open(temporaryPath, 'wx');
+    for await (const chunk of chunks) {
+      const bytes = typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : chunk;
+      // A single write may be partial; keep going until the whole chunk is on disk.
+      let offset = 0;
+      while (offset < bytes.length) {
+        const { bytesWritten } = await handle.write(bytes, offset, bytes.length - offset);
+        offset += bytesWritten;
+      }
+    }
+    await handle.sync();
+    await handle.close();
+    handle = undefined;
+    await fs.rename(temporaryPath, target);
+  } catch (error) {
+    if (handle) await handle.close().catch(() => undefined);
+    await fs.rm(temporaryPath, { force: true }).catch(() => undefined);
+    throw error;
+  }
+}

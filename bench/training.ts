@@ -1,0 +1,210 @@
+// Training speed: one full-batch step of the two-layer network (input → 64 ReLU → classes,
+// one sigmoid per class, class-weighted BCE, Adam) three ways, then the whole sign model on a
+// large invented graph. Prints figures; never passes or fails on time.
+//   npx tsx bench/training.ts            (the large case runs 10 epochs and extrapolates)
+//   npx tsx bench/training.ts --full     (the large case runs all 200 epochs)
+// Reference (FIELD-NOTES.md, PyTorch 1.13, 2 threads): 112 ms per step for 20,000 × 128 → 64 → 10;
+// 18.4 s for 200 epochs of sign on 100,000 nodes × 128 features (1.8 s to propagate).
+import * as tf from '@tensorflow/tfjs';
+import { addTransposedProduct, gatherMatMul, matMulTransposedRight } from '../src/engine/dense/matmul';
+import { buildAdjacency } from '../src/engine/graph/csr';
+import { AdamOptimizer } from '../src/engine/models/adam';
+import { classWeightedBce, oneHotTargets, positiveWeights } from '../src/engine/models/classWeightedLoss';
+import { DenseTrainingStep, type DenseParameters } from '../src/engine/models/denseStep';
+import { dropoutMask, glorotUniform } from '../src/engine/models/initialisation';
+import { precomputePropagation, trainAndPredict } from '../src/engine/models/train';
+import { defaultModelSettings, type GraphInputs } from '../src/engine/models/types';
+import { initTensorflow } from '../src/engine/tf/backend';
+import { SeededRandom } from '../src/engine/util/random';
+
+interface StepProblem {
+  rows: number;
+  inputDim: number;
+  hidden: number;
+  classes: number;
+  features: Float32Array;
+  classIndex: Int32Array;
+}
+
+function invented(rows: number, inputDim: number, classes: number, seed: number): StepProblem {
+  const random = new SeededRandom(seed);
+  const features = new Float32Array(rows * inputDim);
+  for (let i = 0; i < features.length; i++) features[i] = random.normal();
+  const classIndex = new Int32Array(rows);
+  for (let i = 0; i < rows; i++) classIndex[i] = random.int(classes);
+  return { rows, inputDim, hidden: 64, classes, features, classIndex };
+}
+
+function freshParameters(p: StepProblem, random: SeededRandom): DenseParameters {
+  return {
+    hiddenKernel: glorotUniform(p.inputDim, p.hidden, random),
+    hiddenBias: new Float32Array(p.hidden),
+    outputKernel: glorotUniform(p.hidden, p.classes, random),
+    outputBias: new Float32Array(p.classes),
+  };
+}
+
+function median(values: number[]): number {
+  const sorted = values.slice().sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+/** Runs `step` warmup + repeats times; returns the median milliseconds of the timed runs. */
+function timeSteps(step: () => void, repeats: number, warmup = 2): number {
+  for (let i = 0; i < warmup; i++) step();
+  const times: number[] = [];
+  for (let i = 0; i < repeats; i++) {
+    const started = performance.now();
+    step();
+    times.push(performance.now() - started);
+  }
+  return median(times);
+}
+
+/** (a) tfjs autograd with tfjs's own Adam (L2 added to the loss, as weight_decay does). */
+function autogradStep(p: StepProblem, repeats: number): number {
+  const random = new SeededRandom(1);
+  const params = freshParameters(p, random);
+  const x = tf.tensor2d(p.features, [p.rows, p.inputDim]);
+  const y = tf.tensor2d(oneHotTargets(p.classIndex, p.classes), [p.rows, p.classes]);
+  const posWeight = tf.tensor1d(positiveWeights(p.classIndex, p.classes));
+  const logWeight = tf.tidy(() => tf.add(1, tf.mul(tf.sub(posWeight, 1), y)));
+  const w1 = tf.variable(tf.tensor2d(params.hiddenKernel, [p.inputDim, p.hidden]));
+  const b1 = tf.variable(tf.tensor1d(params.hiddenBias));
+  const w2 = tf.variable(tf.tensor2d(params.outputKernel, [p.hidden, p.classes]));
+  const b2 = tf.variable(tf.tensor1d(params.outputBias));
+  const optimiser = tf.train.adam(0.01);
+  const mask = new Float32Array(p.rows * p.hidden);
+  const ms = timeSteps(() => {
+    dropoutMask(mask.length, 0.5, random, mask);
+    const maskTensor = tf.tensor2d(mask, [p.rows, p.hidden]);
+    const loss = optimiser.minimize(
+      () => {
+        const hidden = tf.mul(tf.relu(tf.add(tf.matMul(x, w1), b1)), maskTensor);
+        const z = tf.add(tf.matMul(hidden, w2), b2);
+        const bce = tf.mean(tf.add(tf.mul(tf.sub(1, y), z), tf.mul(logWeight, tf.softplus(tf.neg(z)))));
+        const l2 = tf.mul(2.5e-4, tf.addN([tf.sum(tf.square(w1)), tf.sum(tf.square(b1)), tf.sum(tf.square(w2)), tf.sum(tf.square(b2))]));
+        return tf.add(bce, l2) as tf.Scalar;
+      },
+      true,
+      [w1, b1, w2, b2],
+    );
+    loss?.dataSync();
+    tf.dispose([loss!, maskTensor]);
+  }, repeats);
+  optimiser.dispose();
+  tf.dispose([x, y, posWeight, logWeight, w1, b1, w2, b2]);
+  return ms;
+}
+
+/** (b) tfjs matMul with the hand-written backward pass (the engine's mlp/sign path). */
+function handWrittenTfStep(p: StepProblem, repeats: number): number {
+  const random = new SeededRandom(1);
+  const params = freshParameters(p, random);
+  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], { learningRate: 0.01, weightDecay: 5e-4 });
+  const step = new DenseTrainingStep(p.features, p.rows, p.inputDim, oneHotTargets(p.classIndex, p.classes), positiveWeights(p.classIndex, p.classes), p.hidden, 1 / (p.rows * p.classes));
+  const mask = new Float32Array(p.rows * p.hidden);
+  const ms = timeSteps(() => {
+    dropoutMask(mask.length, 0.5, random, mask);
+    const { gradients } = step.run(params, mask);
+    optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
+  }, repeats);
+  step.dispose();
+  return ms;
+}
+
+/** (c) Our typed-array kernels (one thread), same maths as (b). */
+function typedArrayStep(p: StepProblem, repeats: number): number {
+  const random = new SeededRandom(1);
+  const params = freshParameters(p, random);
+  const { rows, inputDim, hidden, classes } = p;
+  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], { learningRate: 0.01, weightDecay: 5e-4 });
+  const targets = oneHotTargets(p.classIndex, classes);
+  const posWeight = positiveWeights(p.classIndex, classes);
+  const allRows = Int32Array.from({ length: rows }, (_, i) => i);
+  const mask = new Float32Array(rows * hidden);
+  const hiddenOut = new Float32Array(rows * hidden);
+  const logits = new Float32Array(rows * classes);
+  const logitsGradient = new Float32Array(rows * classes);
+  const hiddenGradient = new Float32Array(rows * hidden);
+  const grads = {
+    hiddenKernel: new Float32Array(inputDim * hidden),
+    hiddenBias: new Float32Array(hidden),
+    outputKernel: new Float32Array(hidden * classes),
+    outputBias: new Float32Array(classes),
+  };
+  return timeSteps(() => {
+    dropoutMask(mask.length, 0.5, random, mask);
+    gatherMatMul(p.features, allRows, params.hiddenKernel, inputDim, hidden, hiddenOut);
+    for (let k = 0; k < hiddenOut.length; k++) {
+      const v = hiddenOut[k] + params.hiddenBias[k % hidden];
+      hiddenOut[k] = v > 0 ? v * mask[k] : 0;
+    }
+    gatherMatMul(hiddenOut, allRows, params.outputKernel, hidden, classes, logits);
+    for (let k = 0; k < logits.length; k++) logits[k] += params.outputBias[k % classes];
+    classWeightedBce(logits, targets, posWeight, logitsGradient);
+    grads.outputKernel.fill(0);
+    addTransposedProduct(hiddenOut, null, logitsGradient, hidden, classes, grads.outputKernel, 0, rows);
+    grads.outputBias.fill(0);
+    for (let k = 0; k < logitsGradient.length; k++) grads.outputBias[k % classes] += logitsGradient[k];
+    matMulTransposedRight(logitsGradient, params.outputKernel, rows, classes, hidden, hiddenGradient);
+    for (let k = 0; k < hiddenGradient.length; k++) if (hiddenOut[k] <= 0) hiddenGradient[k] = 0;
+    for (let k = 0; k < hiddenGradient.length; k++) hiddenGradient[k] *= mask[k] > 0 ? mask[k] : 0;
+    grads.hiddenKernel.fill(0);
+    addTransposedProduct(p.features, null, hiddenGradient, inputDim, hidden, grads.hiddenKernel, 0, rows);
+    grads.hiddenBias.fill(0);
+    for (let k = 0; k < hiddenGradient.length; k++) grads.hiddenBias[k % hidden] += hiddenGradient[k];
+    optimiser.update([grads.hiddenKernel, grads.hiddenBias, grads.outputKernel, grads.outputBias]);
+  }, repeats, 1);
+}
+
+/** An invented graph: each node links to `degree / 2` random others (about `degree` per node both ways). */
+function inventedGraph(nodeCount: number, featureDim: number, degree: number, seed: number): GraphInputs {
+  const random = new SeededRandom(seed);
+  const edgeCount = (nodeCount * degree) / 2;
+  const source = new Int32Array(edgeCount);
+  const target = new Int32Array(edgeCount);
+  for (let e = 0; e < edgeCount; e++) {
+    source[e] = random.int(nodeCount);
+    target[e] = random.int(nodeCount);
+  }
+  const features = new Float32Array(nodeCount * featureDim);
+  for (let i = 0; i < features.length; i++) features[i] = random.normal();
+  return { nodeCount, features, featureDim, adjacency: buildAdjacency(nodeCount, { source, target, weight: null, count: edgeCount }, true) };
+}
+
+export async function runTrainingBenchmarks(print: (line: string) => void, options: { full?: boolean } = {}): Promise<void> {
+  const problem = invented(20_000, 128, 10, 7);
+  print('# one training step, 20,000 × 128 → 64 → 10, sigmoid BCE + Adam (median ms; PyTorch 2 threads: 112)');
+  await initTensorflow('cpu');
+  print(`(a) tfjs-cpu autograd: ${autogradStep(problem, 3).toFixed(0)} ms`);
+  await initTensorflow('wasm');
+  print(`(a) tfjs-wasm autograd: ${autogradStep(problem, 5).toFixed(0)} ms`);
+  print(`(b) tfjs-wasm matMul, hand-written backward: ${handWrittenTfStep(problem, 9).toFixed(0)} ms`);
+  print(`(c) typed-array kernels, one thread: ${typedArrayStep(problem, 3).toFixed(0)} ms`);
+
+  const nodeCount = 100_000;
+  const epochs = options.full ? 200 : 10;
+  print(`# sign on an invented graph: ${nodeCount.toLocaleString('en')} nodes × 128 features, ~1,000,000 edges, 50% labelled, 10 classes, ${epochs} epochs`);
+  const graph = inventedGraph(nodeCount, 128, 20, 11);
+  const random = new SeededRandom(12);
+  const labelledNodes = Int32Array.from({ length: nodeCount }, (_, i) => i).filter(() => random.next() < 0.5);
+  const train = { nodeIndex: labelledNodes, classIndex: labelledNodes.map(() => random.int(10)), classCount: 10 };
+  let started = performance.now();
+  const propagated = precomputePropagation(graph, 2);
+  const propagateSeconds = (performance.now() - started) / 1000;
+  started = performance.now();
+  const out = await trainAndPredict(graph, train, { ...defaultModelSettings, kind: 'sign', epochs }, { precomputed: propagated });
+  const total = (performance.now() - started) / 1000;
+  const perEpoch = out.timings.train / epochs;
+  print(`propagate [X, ÂX, Â²X]: ${propagateSeconds.toFixed(2)} s (PyTorch: 1.8 s)`);
+  print(`train: ${out.timings.train.toFixed(2)} s for ${epochs} epochs = ${(perEpoch * 1000).toFixed(0)} ms per epoch over ${labelledNodes.length} rows × 384 → 200 epochs ≈ ${(perEpoch * 200).toFixed(1)} s (PyTorch: 18.4 s)`);
+  print(`predict all nodes: ${out.timings.predict.toFixed(2)} s; trainAndPredict total ${total.toFixed(2)} s`);
+}
+
+if (process.argv[1] && /training\.ts$/.test(process.argv[1])) {
+  runTrainingBenchmarks((line) => console.log(line), { full: process.argv.includes('--full') }).catch((error: unknown) => {
+    console.error(error);
+    process.exitCode = 1;
+  });
+}

@@ -1,0 +1,102 @@
+// DOC-style open-set rejection over one-vs-rest sigmoid outputs. A class's training nodes should
+// score near 1; mirroring their scores around 1 gives a symmetric sample whose spread says how
+// far below 1 a genuine member may still fall. Definitions match the reference pipeline
+// (shared/reference/torch_pipeline.py): population standard deviation, threshold floor 0.5,
+// novelty 1 − min(1, max_c p_c / t_c).
+import { rowCountOf } from './rowShape';
+
+export const DEFAULT_DOC_ALPHA = 3;
+
+/** Threshold of a class that has no training nodes (the reference's sd = 0.5 gives max(0.5, 1 − 1.5) = 0.5). */
+export const DOC_THRESHOLD_FLOOR = 0.5;
+
+/**
+ * Per-class thresholds. For class c, p = the sigmoid outputs p[node, c] of its training nodes;
+ * σ = population std of {p} ∪ {2 − p}, whose mean is exactly 1, so σ² = mean((1 − p)²);
+ * threshold = max(0.5, 1 − α·σ). A class with no training nodes gets 0.5.
+ * probabilities: row-major nodes × classCount; trainNodes[k] has class trainClasses[k].
+ */
+export function docThresholds(
+  probabilities: Float32Array,
+  classCount: number,
+  trainNodes: Int32Array,
+  trainClasses: Int32Array,
+  alpha: number = DEFAULT_DOC_ALPHA,
+): Float32Array {
+  const nodeCount = rowCountOf(probabilities, classCount, 'docThresholds');
+  if (trainNodes.length !== trainClasses.length) {
+    throw new RangeError(`docThresholds: ${trainNodes.length} training nodes but ${trainClasses.length} training classes`);
+  }
+  if (!Number.isFinite(alpha) || alpha < 0) throw new RangeError(`docThresholds: alpha must be a finite number ≥ 0, got ${alpha}`);
+  const squaredGap = new Float64Array(classCount);
+  const memberCount = new Int32Array(classCount);
+  for (let k = 0; k < trainNodes.length; k++) {
+    const node = trainNodes[k];
+    const cls = trainClasses[k];
+    if (node < 0 || node >= nodeCount)
+      throw new RangeError(`docThresholds: training node ${node} (entry ${k}) is outside 0..${nodeCount - 1}`);
+    if (cls < 0 || cls >= classCount)
+      throw new RangeError(`docThresholds: training class ${cls} (entry ${k}) is outside 0..${classCount - 1}`);
+    const p = probabilities[node * classCount + cls];
+    if (!Number.isFinite(p)) throw new RangeError(`docThresholds: probability of training node ${node}, class ${cls} is ${p}`);
+    squaredGap[cls] += (1 - p) * (1 - p);
+    memberCount[cls]++;
+  }
+  const thresholds = new Float32Array(classCount);
+  for (let c = 0; c < classCount; c++) {
+    if (memberCount[c] === 0) {
+      thresholds[c] = DOC_THRESHOLD_FLOOR;
+      continue;
+    }
+    const sigma = Math.sqrt(squaredGap[c] / memberCount[c]);
+    thresholds[c] = Math.max(DOC_THRESHOLD_FLOOR, 1 - alpha * sigma);
+  }
+  return thresholds;
+}
+
+function checkThresholds(thresholds: Float32Array, classCount: number, name: string): void {
+  if (thresholds.length !== classCount) throw new RangeError(`${name}: ${thresholds.length} thresholds for ${classCount} classes`);
+  for (let c = 0; c < classCount; c++) {
+    if (!(thresholds[c] > 0)) throw new RangeError(`${name}: threshold of class ${c} must be > 0, got ${thresholds[c]}`);
+  }
+}
+
+/**
+ * Novelty of each node: 1 − min(1, max_c p_c / t_c), in [0, 1]. It is > 0 exactly when every
+ * p_c < t_c, i.e. when DOC rejects the node; larger means further below every threshold.
+ */
+export function docNovelty(probabilities: Float32Array, classCount: number, thresholds: Float32Array): Float32Array {
+  const nodeCount = rowCountOf(probabilities, classCount, 'docNovelty');
+  checkThresholds(thresholds, classCount, 'docNovelty');
+  const novelty = new Float32Array(nodeCount);
+  for (let i = 0; i < nodeCount; i++) {
+    const base = i * classCount;
+    let ratio = -Infinity;
+    for (let c = 0; c < classCount; c++) {
+      // Division rather than multiplication by the inverse keeps p < t ⇔ p / t < 1 exact.
+      const r = probabilities[base + c] / thresholds[c];
+      if (r > ratio) ratio = r;
+    }
+    novelty[i] = 1 - Math.min(1, ratio);
+  }
+  return novelty;
+}
+
+/** DOC's rejection rule: 1 where every class probability is below its threshold. */
+export function docRejected(probabilities: Float32Array, classCount: number, thresholds: Float32Array): Uint8Array {
+  const nodeCount = rowCountOf(probabilities, classCount, 'docRejected');
+  checkThresholds(thresholds, classCount, 'docRejected');
+  const rejected = new Uint8Array(nodeCount);
+  for (let i = 0; i < nodeCount; i++) {
+    const base = i * classCount;
+    let allBelow = 1;
+    for (let c = 0; c < classCount; c++) {
+      if (!(probabilities[base + c] < thresholds[c])) {
+        allBelow = 0;
+        break;
+      }
+    }
+    rejected[i] = allBelow;
+  }
+  return rejected;
+}

@@ -1,0 +1,130 @@
+// How many nodes a different rejection setting would set aside, fast enough to answer every
+// move of a slider. It runs the scoring path itself (src/engine/scoring and the pipeline's
+// rejection rule) on the run's stored outputs, caching what a setting change leaves untouched:
+// the raw novelty depends on α only, the smoothing on α and λ, the quantile cut on all three.
+import type { CsrMatrix } from '../engine/graph/csr';
+import { localNodesOfSlice, rejectedAmong, type PrefixFit } from '../engine/pipeline/modelOnPrefix';
+import type { NoveltyMethod, RunSettings } from '../engine/pipeline/runSettings';
+import { docNovelty, docThresholds } from '../engine/scoring/docThresholds';
+import { smoothNovelty } from '../engine/scoring/smoothing';
+import type { Dataset } from '../engine/dataset/types';
+import type { ThresholdPreviewResult, ThresholdSetting } from '../protocol/webview';
+
+export const defaultMinCandidateSize = 3;
+
+export type PreviewNovelty =
+  /** DOC: novelty follows the thresholds, which follow α. Probabilities are local nodes × classes. */
+  | { kind: 'doc'; probabilities: Float32Array; classCount: number; trainNodes: Int32Array; trainClasses: Int32Array }
+  /** Max-softmax or energy scores: α plays no part. */
+  | { kind: 'fixed'; noveltyRaw: Float32Array };
+
+export interface ThresholdPreviewInput {
+  novelty: PreviewNovelty;
+  noveltyMethod: NoveltyMethod;
+  /** The scored prefix graph (local indices), as smoothing used it. */
+  adjacency: CsrMatrix;
+  smoothingRounds: number;
+  /** Local indices of the scored slice's nodes: the ones counted. */
+  scoredNodes: Int32Array;
+  /** Local member indices of each open candidate, for the candidate preview. */
+  candidates?: Int32Array[];
+  minCandidateSize?: number;
+}
+
+export type ThresholdPreviewer = (setting: ThresholdSetting) => ThresholdPreviewResult;
+
+export function createThresholdPreviewer(input: ThresholdPreviewInput): ThresholdPreviewer {
+  const localCount = input.adjacency.rowCount;
+  const minSize = input.minCandidateSize ?? defaultMinCandidateSize;
+  const candidates = input.candidates ?? [];
+  const inCandidate = new Uint8Array(localCount);
+  for (const members of candidates) for (const node of members) inCandidate[node] = 1;
+  const noveltyLength = input.novelty.kind === 'doc' ? input.novelty.probabilities.length / input.novelty.classCount : input.novelty.noveltyRaw.length;
+  if (noveltyLength !== localCount) throw new Error(`threshold preview: ${noveltyLength} scored rows for a graph of ${localCount} nodes`);
+
+  let rawFor: { alpha: number; raw: Float32Array } | null = null;
+  let smoothedFor: { alpha: number; lambda: number; smoothed: Float32Array } | null = null;
+  const rawNovelty = (alpha: number): Float32Array => {
+    const source = input.novelty;
+    if (source.kind === 'fixed') return source.noveltyRaw;
+    if (rawFor?.alpha !== alpha) {
+      const thresholds = docThresholds(source.probabilities, source.classCount, source.trainNodes, source.trainClasses, alpha);
+      rawFor = { alpha, raw: docNovelty(source.probabilities, source.classCount, thresholds) };
+    }
+    return rawFor.raw;
+  };
+  const smoothed = (alpha: number, lambda: number): Float32Array => {
+    const alphaKey = input.novelty.kind === 'doc' ? alpha : 0;
+    if (smoothedFor?.alpha !== alphaKey || smoothedFor.lambda !== lambda) {
+      smoothedFor = { alpha: alphaKey, lambda, smoothed: smoothNovelty(rawNovelty(alpha), input.adjacency, lambda, input.smoothingRounds) };
+    }
+    return smoothedFor.smoothed;
+  };
+
+  return (setting) => {
+    const noveltySmoothed = smoothed(setting.alpha, setting.lambda);
+    // rejectedAmong reads only the fit's smoothed novelty and the settings' rejection fields.
+    const rule = { rejectQuantile: setting.mode === 'quantile' ? setting.quantile : null, noveltyMethod: input.noveltyMethod } as RunSettings;
+    const flags = rejectedAmong({ noveltySmoothed } as PrefixFit, rule, input.scoredNodes);
+    const isRejected = new Uint8Array(localCount);
+    let rejected = 0;
+    let ungroupedRejected = 0;
+    for (let i = 0; i < flags.length; i++) {
+      if (!flags[i]) continue;
+      rejected++;
+      const node = input.scoredNodes[i];
+      isRejected[node] = 1;
+      if (!inCandidate[node]) ungroupedRejected++;
+    }
+    let candidatesKept = 0;
+    for (const members of candidates) {
+      let count = 0;
+      for (const node of members) count += isRejected[node];
+      if (count >= minSize) candidatesKept++;
+    }
+    return { setting: { ...setting }, rejected, scored: input.scoredNodes.length, candidatesKept, ungroupedRejected };
+  };
+}
+
+/**
+ * Preview input from the fit a run was scored with. `candidateMembers` are global node indices
+ * (the open candidates' members); nodes outside the fit's prefix are ignored.
+ */
+export function thresholdPreviewInputOf(dataset: Dataset, fit: PrefixFit, settings: RunSettings, candidateMembers: ArrayLike<number>[] = []): ThresholdPreviewInput {
+  const classCount = fit.modelClasses.length;
+  const trainNodes: number[] = [];
+  const trainClasses: number[] = [];
+  const modelIndexOfGlobal = new Map<number, number>();
+  fit.modelClasses.forEach((g, i) => modelIndexOfGlobal.set(g, i));
+  for (let k = 0; k < fit.training.nodes.length; k++) {
+    const local = fit.prefix.localIndex[fit.training.nodes[k]];
+    const cls = modelIndexOfGlobal.get(fit.training.globalClasses[k]);
+    if (local >= 0 && cls !== undefined) {
+      trainNodes.push(local);
+      trainClasses.push(cls);
+    }
+  }
+  const novelty: PreviewNovelty =
+    settings.noveltyMethod === 'doc'
+      ? { kind: 'doc', probabilities: fit.probabilities, classCount, trainNodes: Int32Array.from(trainNodes), trainClasses: Int32Array.from(trainClasses) }
+      : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
+  const candidates = candidateMembers.map((members) => Int32Array.from(Array.from(members, (g) => fit.prefix.localIndex[g]).filter((l) => l >= 0)));
+  return {
+    novelty,
+    noveltyMethod: settings.noveltyMethod,
+    adjacency: fit.prefix.inputs.adjacency,
+    smoothingRounds: settings.smoothingRounds,
+    scoredNodes: localNodesOfSlice(dataset, fit, fit.slice),
+    candidates,
+  };
+}
+
+/** The setting a run was scored with, as the panel's controls show it. */
+export function thresholdSettingOf(settings: RunSettings): ThresholdSetting {
+  return {
+    mode: settings.rejectQuantile !== null || settings.noveltyMethod !== 'doc' ? 'quantile' : 'alpha',
+    alpha: settings.alpha,
+    quantile: settings.rejectQuantile ?? 0.1,
+    lambda: settings.smoothingWeight,
+  };
+}

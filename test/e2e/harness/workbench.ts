@@ -1,0 +1,133 @@
+// Drives the VS Code workbench in Chromium the way a user does: command palette, quick picks,
+// notifications, the Problems panel. Every wait is bounded and fails with what was on screen.
+import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
+import { chromiumPath } from './paths';
+
+// Flags that work for Debian's Chromium on these machines (headless, root, no GPU, no network).
+const chromiumFlags = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+  '--disable-quic',
+];
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({ executablePath: chromiumPath, args: chromiumFlags, headless: true, timeout: 60_000 });
+}
+
+export async function openWorkbench(browser: Browser, url: string, folder: string): Promise<Page> {
+  const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+  page.setDefaultTimeout(30_000);
+  await page.goto(`${url}?folder=${encodeURIComponent(folder)}`, { waitUntil: 'domcontentloaded', timeout: 60_000 });
+  await page.locator('.monaco-workbench').waitFor({ state: 'visible', timeout: 90_000 });
+  return page;
+}
+
+const quickInput = (page: Page): Locator => page.locator('.quick-input-widget');
+const quickInputBox = (page: Page): Locator => quickInput(page).locator('.quick-input-box input');
+const quickInputRows = (page: Page): Locator => quickInput(page).locator('.monaco-list-row');
+
+async function rowTexts(rows: Locator): Promise<string[]> {
+  const texts = await rows.evaluateAll((elements) => elements.map((element) => (element as HTMLElement).innerText.replace(/\s+/g, ' ').trim()));
+  return texts.filter((text) => text !== '');
+}
+
+async function openPalette(page: Page, query: string): Promise<void> {
+  // Dismiss whatever quick input may still be open, so F1 opens a fresh palette.
+  if (await quickInput(page).isVisible()) await page.keyboard.press('Escape');
+  await page.keyboard.press('F1');
+  await quickInputBox(page).waitFor({ state: 'visible', timeout: 10_000 });
+  await quickInputBox(page).fill(`>${query}`);
+}
+
+/** The command palette's entries whose text matches `query` (the palette's own fuzzy filter). */
+export async function paletteEntries(page: Page, query: string): Promise<string[]> {
+  await openPalette(page, query);
+  // The list filters asynchronously; give it a moment to settle before reading.
+  await page.waitForTimeout(1_000);
+  const entries = await rowTexts(quickInputRows(page));
+  await page.keyboard.press('Escape');
+  return entries;
+}
+
+/** Runs a command by its palette title ("Category: Title"); fails listing what the palette offered. */
+export async function runCommand(page: Page, title: string): Promise<void> {
+  await openPalette(page, title);
+  const row = quickInputRows(page).filter({ hasText: title }).first();
+  try {
+    await row.waitFor({ state: 'visible', timeout: 15_000 });
+  } catch {
+    const offered = await rowTexts(quickInputRows(page));
+    await page.keyboard.press('Escape');
+    throw new Error(`the command palette has no "${title}"; for that query it offered: ${offered.length > 0 ? offered.join(' | ') : '(nothing)'}`);
+  }
+  await row.click();
+}
+
+/** Picks an item in an open quick pick (not the command palette) by typing part of its label. */
+export async function chooseQuickPickItem(page: Page, text: string): Promise<void> {
+  await quickInputBox(page).waitFor({ state: 'visible', timeout: 30_000 });
+  await quickInputBox(page).fill(text);
+  const row = quickInputRows(page).filter({ hasText: text }).first();
+  try {
+    await row.waitFor({ state: 'visible', timeout: 10_000 });
+  } catch {
+    const offered = await rowTexts(quickInputRows(page));
+    throw new Error(`the quick pick has no item "${text}"; it offered: ${offered.join(' | ') || '(nothing)'}`);
+  }
+  await row.click();
+}
+
+/** Texts of the notifications on screen (toasts) and in the notification center. */
+export async function notificationTexts(page: Page): Promise<string[]> {
+  return rowTexts(page.locator('.notification-list-item-message'));
+}
+
+/** Waits for a notification whose text matches; fails listing the notifications that did show. */
+export async function waitForNotification(page: Page, expected: RegExp, timeoutMs: number): Promise<string> {
+  const deadline = Date.now() + timeoutMs;
+  let seen = new Set<string>();
+  while (Date.now() < deadline) {
+    const texts = await notificationTexts(page);
+    const match = texts.find((text) => expected.test(text));
+    if (match !== undefined) return match;
+    seen = new Set([...seen, ...texts]);
+    await page.waitForTimeout(250);
+  }
+  throw new Error(`no notification matching ${expected} within ${timeoutMs / 1000} s; notifications seen: ${[...seen].join(' | ') || '(none)'}`);
+}
+
+export async function clearNotifications(page: Page): Promise<void> {
+  await runCommand(page, 'Notifications: Clear All Notifications');
+}
+
+/** Opens the Problems panel and returns its rows' texts once at least one row matches `expected`. */
+export async function waitForProblemRows(page: Page, expected: RegExp, timeoutMs: number): Promise<string[]> {
+  await runCommand(page, 'View: Focus Problems (Errors, Warnings, Infos)');
+  const panel = page.locator('.markers-panel');
+  await panel.waitFor({ state: 'visible', timeout: 10_000 });
+  const deadline = Date.now() + timeoutMs;
+  let rows: string[] = [];
+  while (Date.now() < deadline) {
+    rows = await rowTexts(panel.locator('.monaco-list-row'));
+    if (rows.some((row) => expected.test(row))) return rows;
+    await page.waitForTimeout(250);
+  }
+  throw new Error(`the Problems panel shows no row matching ${expected}; its rows: ${rows.join(' | ') || '(none)'}`);
+}
+
+/** The cursor position the status bar shows for the active editor, e.g. "Ln 3, Col 1". */
+export async function statusBarCursor(page: Page): Promise<string> {
+  const item = page.locator('#status\\.editor\\.selection');
+  await item.waitFor({ state: 'visible', timeout: 10_000 });
+  return (await item.innerText()).trim();
+}
+
+export async function activeEditorTabTitle(page: Page): Promise<string> {
+  const tab = page.locator('.tabs-container .tab.active');
+  await tab.waitFor({ state: 'visible', timeout: 10_000 });
+  return (await tab.innerText()).replace(/\s+/g, ' ').trim();
+}

@@ -1,0 +1,223 @@
+// End-to-end run in a real VS Code (code-server) with the packaged extension installed from its
+// .vsix, as a user would have it. Run through `npm run test:e2e` (scripts/e2e/run.sh), which sets
+// up code-server and builds the .vsix first; or directly: npx tsx test/e2e/run.e2e.ts [--vsix FILE] [--keep]
+//
+// Each step leaves a screenshot in test-output/e2e-screenshots/. The process exits 0 when every
+// check passed and 1 otherwise, and never leaves code-server or Chromium running.
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import type { Browser } from 'playwright-core';
+import { installExtension, startCodeServer, type CodeServerFolders, type RunningCodeServer } from './harness/codeServer';
+import { probePackagedRuntime } from './harness/packagedRuntime';
+import { defaultVsixPath, demoDatasetFolder, logsDir, screenshotsDir } from './harness/paths';
+import { StepRecorder } from './harness/steps';
+import { keepVscodeLogs, outputChannelText } from './harness/vscodeLogs';
+import {
+  activeEditorTabTitle,
+  chooseQuickPickItem,
+  clearNotifications,
+  launchBrowser,
+  openWorkbench,
+  paletteEntries,
+  runCommand,
+  statusBarCursor,
+  waitForNotification,
+  waitForProblemRows,
+} from './harness/workbench';
+import { copyWithDuplicateNodeId, createWorkspace } from './harness/workspace';
+
+const commandTitles = {
+  validate: 'Graph Curator: Validate Dataset Folder',
+  summary: 'Graph Curator: Show Dataset Summary',
+};
+
+/** Whole-run limit: a hung workbench must end the run, not the CI job's patience. */
+const runTimeoutMs = Number(process.env.E2E_TIMEOUT_SECONDS ?? 600) * 1000;
+/** Worker start-up plus a full validation of the demo dataset on a busy 2-core machine. */
+const engineRequestTimeoutMs = 120_000;
+
+interface Options {
+  vsixPath: string;
+  keepTemp: boolean;
+}
+
+function parseArguments(argv: string[]): Options {
+  const options: Options = { vsixPath: defaultVsixPath(), keepTemp: false };
+  for (let i = 0; i < argv.length; i++) {
+    if (argv[i] === '--vsix' && argv[i + 1]) options.vsixPath = path.resolve(argv[++i]);
+    else if (argv[i] === '--keep') options.keepTemp = true;
+    else throw new Error(`unknown argument "${argv[i]}"; usage: run.e2e.ts [--vsix FILE] [--keep]`);
+  }
+  return options;
+}
+
+function assert(condition: boolean, message: string): asserts condition {
+  if (!condition) throw new Error(message);
+}
+
+const escapeRegExp = (text: string): string => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
+async function scenario(options: Options, resources: { server?: RunningCodeServer; browser?: Browser }, tempRoot: string): Promise<void> {
+  const steps = new StepRecorder(screenshotsDir);
+  const folders: CodeServerFolders = {
+    extensionsDir: path.join(tempRoot, 'extensions'),
+    userDataDir: path.join(tempRoot, 'user-data'),
+    homeDir: path.join(tempRoot, 'home'),
+  };
+  const failureLogs = path.join(logsDir, 'vscode');
+  rmSync(logsDir, { recursive: true, force: true });
+  mkdirSync(logsDir, { recursive: true });
+
+  try {
+    const extensionFolder = await steps.step('install-vsix', 180_000, () => Promise.resolve(installExtension(options.vsixPath, folders)));
+    console.log(`       installed into ${extensionFolder}`);
+
+    await steps.step('packaged-tfjs-runs-on-wasm', 90_000, () => {
+      const runtime = probePackagedRuntime(extensionFolder);
+      // [[1,2],[3,4]]·[[5,6],[7,8]] = [[19,22],[43,50]], computed by hand (1·5+2·7, 1·6+2·8, 3·5+4·7, 3·6+4·8).
+      assert(runtime.product.join(',') === '19,22,43,50', `wasm matMul gave ${runtime.product.join(',')}, expected 19,22,43,50`);
+      return Promise.resolve();
+    });
+
+    const workspace = createWorkspace(path.join(tempRoot, 'workspace'), demoDatasetFolder);
+    const datasetName = path.basename(workspace.datasetFolder);
+
+    resources.server = await steps.step('start-code-server', 120_000, () =>
+      startCodeServer(workspace.root, folders, path.join(logsDir, 'code-server.log')),
+    );
+    resources.browser = await launchBrowser();
+    const browser = resources.browser;
+    const server = resources.server;
+
+    const page = await steps.step('open-workspace', 150_000, async () => {
+      const page = await openWorkbench(browser, server.url, workspace.root);
+      steps.page = page;
+      // The explorer lists the dataset folder once the workspace is really open.
+      await page.locator('.explorer-folders-view .monaco-list-row', { hasText: datasetName }).first().waitFor({ timeout: 60_000 });
+      return page;
+    });
+
+    await steps.step('commands-in-palette', 90_000, async () => {
+      // Contributed commands appear once the extension host has scanned the installed extensions,
+      // a few seconds after the workbench shows: ask again until they are there.
+      const deadline = Date.now() + 60_000;
+      let entries: string[] = [];
+      let missing: string[] = [];
+      do {
+        entries = await paletteEntries(page, 'Graph Curator');
+        missing = Object.values(commandTitles).filter((title) => !entries.some((entry) => entry.includes(title)));
+      } while (missing.length > 0 && Date.now() < deadline);
+      console.log(`       palette entries for "Graph Curator": ${entries.join(' | ') || '(none)'}`);
+      assert(missing.length === 0, `missing from the command palette: ${missing.join(', ')}; it listed: ${entries.join(' | ') || '(none)'}`);
+    });
+
+    await steps.step('validate-demo-dataset', engineRequestTimeoutMs + 30_000, async () => {
+      await runCommand(page, commandTitles.validate);
+      // With one dataset.json in the workspace the command asks nothing and reports the result.
+      await waitForNotification(page, new RegExp(`Dataset '${escapeRegExp(datasetName)}' is valid`), engineRequestTimeoutMs);
+    });
+
+    await steps.step('show-summary', engineRequestTimeoutMs + 30_000, async () => {
+      await runCommand(page, commandTitles.summary);
+      const header = `Dataset '${datasetName}' (${workspace.datasetFolder})`;
+      const deadline = Date.now() + engineRequestTimeoutMs;
+      while (!outputChannelText(folders.userDataDir, 'Graph Curator').includes(header)) {
+        assert(Date.now() < deadline, `the "Graph Curator" output channel never showed "${header}"`);
+        await page.waitForTimeout(500);
+      }
+      await page.locator('.part.panel .output-view, .part.panel [id="workbench.panel.output"]').first().waitFor({ state: 'visible', timeout: 10_000 });
+    });
+
+    const brokenFolder = path.join(workspace.root, `${datasetName}-broken`);
+    const defect = copyWithDuplicateNodeId(workspace.datasetFolder, brokenFolder);
+    console.log(`       planted duplicate id "${defect.id}" at ${path.basename(brokenFolder)}/${defect.file}:${defect.line}`);
+
+    await steps.step('validate-broken-copy', engineRequestTimeoutMs + 60_000, async () => {
+      await clearNotifications(page);
+      await runCommand(page, commandTitles.validate);
+      // Two dataset.json files now: the command asks which folder.
+      await chooseQuickPickItem(page, path.basename(brokenFolder));
+      await waitForNotification(page, new RegExp(`Dataset '${escapeRegExp(path.basename(brokenFolder))}' has \\d+ problems?`), engineRequestTimeoutMs);
+    });
+
+    await steps.step('problem-in-problems-panel', 60_000, async () => {
+      // A marker row reads like: `duplicate id "R000001" ... Graph Curator [Ln 3, Col 1]`.
+      const problemRow = new RegExp(`${escapeRegExp(defect.id)}.*\\[Ln ${defect.line}, Col \\d+\\]`);
+      const rows = await waitForProblemRows(page, problemRow, 30_000);
+      const fileRowIndex = rows.findIndex((row) => row.startsWith(defect.file) && row.includes(path.basename(brokenFolder)));
+      const problemIndex = rows.findIndex((row) => problemRow.test(row));
+      assert(fileRowIndex >= 0, `the Problems panel has no "${defect.file}" entry under ${path.basename(brokenFolder)}; rows: ${rows.join(' | ')}`);
+      assert(fileRowIndex < problemIndex, `the problem is not listed under ${defect.file}; rows: ${rows.join(' | ')}`);
+    });
+
+    await steps.step('problem-opens-file-at-line', 60_000, async () => {
+      const problemRow = page.locator('.markers-panel .monaco-list-row', { hasText: defect.id }).filter({ hasText: `[Ln ${defect.line},` });
+      await problemRow.first().dblclick();
+      const deadline = Date.now() + 20_000;
+      let tab = '';
+      let cursor = '';
+      do {
+        await page.waitForTimeout(250);
+        tab = await activeEditorTabTitle(page).catch(() => '');
+        cursor = await statusBarCursor(page).catch(() => '');
+      } while (!(tab.startsWith(defect.file) && cursor.startsWith(`Ln ${defect.line},`)) && Date.now() < deadline);
+      assert(tab.startsWith(defect.file), `opening the problem showed the tab "${tab}", expected ${defect.file}`);
+      assert(cursor.startsWith(`Ln ${defect.line},`), `opening the problem put the cursor at "${cursor}", expected line ${defect.line}`);
+    });
+  } catch (error) {
+    keepVscodeLogs(folders.userDataDir, failureLogs);
+    throw error;
+  }
+}
+
+async function main(): Promise<number> {
+  const options = parseArguments(process.argv.slice(2));
+  const tempRoot = mkdtempSync(path.join(os.tmpdir(), 'graph-curator-e2e-'));
+  const resources: { server?: RunningCodeServer; browser?: Browser } = {};
+  let cleaningUp: Promise<void> | undefined;
+  const cleanUp = (keepTemp: boolean): Promise<void> => {
+    cleaningUp ??= (async () => {
+      await resources.browser?.close().catch(() => undefined);
+      await resources.server?.stop();
+      if (keepTemp) console.log(`temporary folder kept: ${tempRoot}`);
+      else rmSync(tempRoot, { recursive: true, force: true });
+    })();
+    return cleaningUp;
+  };
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+    process.once(signal, () => {
+      console.error(`\nend-to-end run interrupted (${signal}); stopping code-server and the browser`);
+      void cleanUp(true).finally(() => process.exit(signal === 'SIGINT' ? 130 : 143));
+    });
+  }
+  const started = Date.now();
+  console.log(`end-to-end run: ${options.vsixPath}`);
+  let watchdog: NodeJS.Timeout | undefined;
+  try {
+    await Promise.race([
+      scenario(options, resources, tempRoot),
+      new Promise<never>((_, reject) => {
+        watchdog = setTimeout(() => reject(new Error(`the whole run took longer than ${runTimeoutMs / 1000} s (E2E_TIMEOUT_SECONDS)`)), runTimeoutMs);
+      }),
+    ]);
+    await cleanUp(options.keepTemp);
+    console.log(`end-to-end run passed in ${((Date.now() - started) / 1000).toFixed(1)} s; screenshots in ${screenshotsDir}`);
+    return 0;
+  } catch (error) {
+    console.error(`\nend-to-end run FAILED after ${((Date.now() - started) / 1000).toFixed(1)} s: ${error instanceof Error ? error.message : String(error)}`);
+    console.error(`screenshots: ${screenshotsDir}; logs: ${logsDir}`);
+    await cleanUp(true);
+    return 1;
+  } finally {
+    clearTimeout(watchdog);
+  }
+}
+
+main().then(
+  (code) => process.exit(code),
+  (error: unknown) => {
+    console.error(error);
+    process.exit(1);
+  },
+);

@@ -1,0 +1,111 @@
+import * as assert from 'node:assert/strict';
+import {
+  isCancelMessage,
+  isEngineRequest,
+  isErrorMessage,
+  isHostToWorkerMessage,
+  isLocatedProblem,
+  isProgressMessage,
+  isResultMessage,
+  isWorkerToHostMessage,
+  requestTypes,
+} from '../../src/protocol/worker';
+
+const problem = { file: 'nodes.csv', line: 4, column: 1, message: 'duplicate node id "a"' };
+
+describe('protocol/worker guards', () => {
+  it('lists exactly the request kinds the worker serves', () => {
+    assert.deepEqual([...requestTypes].sort(), ['summary', 'validate']);
+  });
+
+  it('accepts well-formed requests and the cancel message', () => {
+    const good = [
+      { type: 'validate', id: 1, params: { folder: '/data/wind-farm' } },
+      { type: 'summary', id: 2, params: { folder: 'relative/folder' } },
+    ];
+    for (const message of good) {
+      assert.equal(isEngineRequest(message), true, JSON.stringify(message));
+      assert.equal(isHostToWorkerMessage(message), true, JSON.stringify(message));
+    }
+    assert.equal(isCancelMessage({ type: 'cancel', id: 7 }), true);
+    assert.equal(isHostToWorkerMessage({ type: 'cancel', id: 7 }), true);
+  });
+
+  it('rejects malformed host-to-worker messages', () => {
+    const bad: unknown[] = [
+      null,
+      undefined,
+      'validate',
+      42,
+      [],
+      {},
+      { type: 'validate', params: { folder: '/x' } }, // no id
+      { type: 'validate', id: -1, params: { folder: '/x' } },
+      { type: 'validate', id: 1.5, params: { folder: '/x' } },
+      { type: 'validate', id: '1', params: { folder: '/x' } },
+      { type: 'validate', id: Number.NaN, params: { folder: '/x' } },
+      { type: 'validate', id: 1 }, // no params
+      { type: 'validate', id: 1, params: {} },
+      { type: 'validate', id: 1, params: { folder: '' } },
+      { type: 'validate', id: 1, params: { folder: 3 } },
+      { type: 'summary', id: 1, params: [] },
+      { type: 'train', id: 1, params: { folder: '/x' } }, // unknown kind
+      { type: 'toString', id: 1, params: { folder: '/x' } }, // inherited property names are not kinds
+      { type: 'cancel' },
+      { type: 'cancel', id: 'x' },
+    ];
+    for (const message of bad) {
+      assert.equal(isHostToWorkerMessage(message), false, JSON.stringify(message));
+    }
+  });
+
+  it('accepts well-formed worker-to-host messages', () => {
+    const good = [
+      { type: 'progress', id: 1, stage: 'load', fraction: 0 },
+      { type: 'progress', id: 1, stage: 'load', fraction: 1 },
+      { type: 'result', id: 1, request: 'validate', value: [] },
+      { type: 'result', id: 1, request: 'validate', value: [problem, { ...problem, line: 0, column: 0 }] },
+      { type: 'result', id: 2, request: 'summary', value: { nodeCount: 34 } },
+      { type: 'error', id: 3, error: { kind: 'dataset', message: 'bad', problems: [problem] } },
+      { type: 'error', id: 3, error: { kind: 'cancelled', message: 'cancelled' } },
+      { type: 'error', id: 3, error: { kind: 'internal', message: 'boom', stack: 'Error: boom\n    at x' } },
+      { type: 'error', id: 3, error: { kind: 'internal', message: 'boom' } },
+    ];
+    for (const message of good) assert.equal(isWorkerToHostMessage(message), true, JSON.stringify(message));
+    assert.equal(isProgressMessage(good[0]), true);
+    assert.equal(isResultMessage(good[2]), true);
+    assert.equal(isErrorMessage(good[5]), true);
+  });
+
+  it('rejects malformed worker-to-host messages', () => {
+    const bad: unknown[] = [
+      { type: 'progress', id: 1, stage: 'load', fraction: 1.5 },
+      { type: 'progress', id: 1, stage: 'load', fraction: -0.1 },
+      { type: 'progress', id: 1, stage: 'load', fraction: Number.NaN },
+      { type: 'progress', id: 1, fraction: 0.5 },
+      { type: 'result', id: 1, value: [] }, // which request it answers is missing
+      { type: 'result', id: 1, request: 'validate', value: {} },
+      { type: 'result', id: 1, request: 'validate', value: [{ file: 'nodes.csv', line: 1, message: 'no column' }] },
+      { type: 'result', id: 1, request: 'validate', value: [{ ...problem, line: -1 }] },
+      { type: 'result', id: 1, request: 'validate', value: [{ ...problem, column: 2.5 }] },
+      { type: 'result', id: 1, request: 'summary', value: null },
+      { type: 'result', id: 1, request: 'summary', value: [1, 2] },
+      { type: 'result', id: 1, request: 'score', value: {} },
+      { type: 'error', id: 3, error: { kind: 'dataset', message: 'bad' } }, // dataset errors carry problems
+      { type: 'error', id: 3, error: { kind: 'dataset', message: 'bad', problems: [{}] } },
+      { type: 'error', id: 3, error: { kind: 'exploded', message: 'x' } },
+      { type: 'error', id: 3, error: { kind: 'internal' } },
+      { type: 'error', id: 3, error: { kind: 'internal', message: 'x', stack: 5 } },
+      { type: 'error', error: { kind: 'cancelled', message: 'x' } },
+      { type: 'validate', id: 1, params: { folder: '/x' } }, // a request is not a reply
+    ];
+    for (const message of bad) assert.equal(isWorkerToHostMessage(message), false, JSON.stringify(message));
+  });
+
+  it('checks located problems field by field', () => {
+    assert.equal(isLocatedProblem(problem), true);
+    assert.equal(isLocatedProblem({ ...problem, file: undefined }), false);
+    assert.equal(isLocatedProblem({ ...problem, message: 3 }), false);
+    assert.equal(isLocatedProblem([problem]), false);
+  });
+});
