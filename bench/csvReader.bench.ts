@@ -48,6 +48,7 @@ async function main(): Promise<void> {
     }
     seconds = (performance.now() - start) / 1000;
     console.log(`csv-parse with info (line numbers): ${Math.round(rows / seconds).toLocaleString('en')} rows/s (${seconds.toFixed(2)} s)`);
+    console.log(`(checksum ${checksum})`);
   }
   await fs.rm(dir, { recursive: true, force: true });
 }

@@ -41,7 +41,11 @@ function syntheticInput(rejectedCount: number, seed: number) {
       }
     }
   }
-  const adjacency = buildAdjacency(nodeCount, { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length }, true);
+  const adjacency = buildAdjacency(
+    nodeCount,
+    { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length },
+    true,
+  );
   const labels = new Int32Array(nodeCount).fill(-1);
   const predictedClass = new Int32Array(nodeCount).fill(-1);
   for (let node = 0; node < knownCount; node++) {
@@ -49,7 +53,10 @@ function syntheticInput(rejectedCount: number, seed: number) {
     if (node % 2 === 0) labels[node] = group[node];
   }
   const words = ['blade', 'icing', 'yaw', 'pitch', 'gearbox', 'bearing', 'vibration', 'grid', 'storm', 'sensor', 'oil', 'heat'];
-  const nodeText = Array.from(group, (g) => `${words[g % words.length]} ${words[(g * 5 + 1) % words.length]} ${words[random.int(words.length)]}`);
+  const nodeText = Array.from(
+    group,
+    (g) => `${words[g % words.length]} ${words[(g * 5 + 1) % words.length]} ${words[random.int(words.length)]}`,
+  );
   const rejectedNodes = Int32Array.from({ length: rejectedCount }, (_, i) => knownCount + i);
   return {
     rejectedNodes,
@@ -95,7 +102,13 @@ export function runDiscoveryBenchmarks(print: (line: string) => void): void {
     const [, silhouetteMs] = time(() =>
       rejectedCount <= 3000
         ? silhouetteValues(points, dim, selection.result.assignment, selection.k)
-        : silhouetteValuesAgainstReference(points, dim, selection.result.assignment, selection.k, sampleIndices(rejectedCount, 500, new SeededRandom(3))),
+        : silhouetteValuesAgainstReference(
+            points,
+            dim,
+            selection.result.assignment,
+            selection.k,
+            sampleIndices(rejectedCount, 500, new SeededRandom(3)),
+          ),
     );
     const [result, totalMs] = time(() => discoverCandidates(input));
     print(

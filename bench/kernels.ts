@@ -2,6 +2,7 @@
 // timed here when Debian's python3-torch is installed, otherwise the FIELD-NOTES figures.
 // Prints figures only; run alone with `npx tsx bench/kernels.ts` (add --quick for 20k only).
 import { spawnSync } from 'node:child_process';
+import { availableParallelism, loadavg } from 'node:os';
 import * as tf from '@tensorflow/tfjs';
 import type { EdgeList } from '../src/engine/dataset/types';
 import { buildAdjacency, type CsrMatrix } from '../src/engine/graph/csr';
@@ -46,10 +47,11 @@ def normalised():
     w = (deg[src] ** -0.5) * (deg[dst] ** -0.5)
     return torch.sparse_coo_tensor(torch.from_numpy(np.stack([dst, src])), torch.from_numpy(w.astype(np.float32)), (n, n)).coalesce()
 def median(f):
-    f(); times = []
+    f(); wall = []; cpu = []
     for _ in range(runs):
-        t = time.perf_counter(); f(); times.append((time.perf_counter() - t) * 1000)
-    return sorted(times)[len(times) // 2]
+        t = time.perf_counter(); c = time.process_time(); f()
+        wall.append((time.perf_counter() - t) * 1000); cpu.append((time.process_time() - c) * 1000)
+    return [sorted(wall)[len(wall) // 2], sorted(cpu)[len(cpu) // 2]]
 coo = normalised(); A = coo.to_sparse_csr()
 def fb():
     H = X.clone().requires_grad_(True)
@@ -84,16 +86,27 @@ function randomFeatures(length: number, seed: number): Float32Array {
   return out;
 }
 
-async function medianMs(run: () => unknown): Promise<number> {
+/** Wall and CPU time in ms. CPU time is the whole process's (all threads), user + system. */
+type Timing = [wall: number, cpu: number];
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+async function medianMs(run: () => unknown): Promise<Timing> {
   await run();
-  const times: number[] = [];
+  const wall: number[] = [];
+  const cpu: number[] = [];
   for (let i = 0; i < RUNS; i++) {
+    const startCpu = process.cpuUsage();
     const start = performance.now();
     await run();
-    times.push(performance.now() - start);
+    wall.push(performance.now() - start);
+    const used = process.cpuUsage(startCpu);
+    cpu.push((used.user + used.system) / 1000);
   }
-  times.sort((a, b) => a - b);
-  return times[Math.floor(times.length / 2)];
+  return [median(wall), median(cpu)];
 }
 
 function findPython(): string | undefined {
@@ -105,7 +118,7 @@ function findPython(): string | undefined {
   return undefined;
 }
 
-function torchTimings(python: string, shape: Shape): Partial<Record<KernelName, number>> | undefined {
+function torchTimings(python: string, shape: Shape): Partial<Record<KernelName, Timing>> | undefined {
   const result = spawnSync(python, ['-c', TORCH_SCRIPT, String(shape.nodes), String(shape.edges), String(shape.columns), String(RUNS)], {
     encoding: 'utf8',
     maxBuffer: 1 << 20,
@@ -113,7 +126,7 @@ function torchTimings(python: string, shape: Shape): Partial<Record<KernelName, 
   if (result.status !== 0) return undefined;
   const lastLine = result.stdout.trim().split('\n').pop() ?? '';
   try {
-    return JSON.parse(lastLine) as Partial<Record<KernelName, number>>;
+    return JSON.parse(lastLine) as Partial<Record<KernelName, Timing>>;
   } catch {
     return undefined;
   }
@@ -128,13 +141,22 @@ function row(cells: string[], widths: number[]): string {
   return cells.map((cell, i) => (i === 0 ? cell.padEnd(widths[i]) : cell.padStart(widths[i]))).join('  ');
 }
 
-async function benchmarkShape(shape: Shape, pool: SpmmPool, print: (line: string) => void, torch: Partial<Record<KernelName, number>> | undefined): Promise<void> {
+async function benchmarkShape(
+  shape: Shape,
+  pool: SpmmPool,
+  print: (line: string) => void,
+  torch: Partial<Record<KernelName, Timing>> | undefined,
+): Promise<void> {
   const edges = randomEdges(shape, 1);
   const features = randomFeatures(shape.nodes * shape.columns, 2);
   let normalized: CsrMatrix = symmetricNormalized(buildAdjacency(shape.nodes, edges, true));
-  const ours: Array<[string, KernelName | undefined, number]> = [];
+  const ours: Array<[string, KernelName | undefined, Timing]> = [];
 
-  ours.push(['buildAdjacency + symmetricNormalized', 'normalize', await medianMs(() => (normalized = symmetricNormalized(buildAdjacency(shape.nodes, edges, true))))]);
+  ours.push([
+    'buildAdjacency + symmetricNormalized',
+    'normalize',
+    await medianMs(() => (normalized = symmetricNormalized(buildAdjacency(shape.nodes, edges, true)))),
+  ]);
   const out = new Float32Array(shape.nodes * shape.columns);
   ours.push(['spmm, 1 thread', 'spmm', await medianMs(() => spmm(normalized, features, shape.columns, out))]);
   ours.push([`SpmmPool, ${pool.threadCount} threads`, 'spmm', await medianMs(() => pool.multiply(normalized, features, shape.columns))]);
@@ -143,12 +165,16 @@ async function benchmarkShape(shape: Shape, pool: SpmmPool, print: (line: string
   const h = tf.tensor2d(features, [shape.nodes, shape.columns]);
   // Â is symmetric, so it is its own transpose: the gradient gathers rows like the forward pass.
   const forwardBackward = tf.grad((x: tf.Tensor) => tf.sum(sparseMatMul(normalized, x as tf.Tensor2D, normalized)));
-  ours.push([`sparseMatMul forward + backward (${tf.getBackend()})`, 'forwardBackward', await medianMs(() => {
-    // Nothing is returned from tidy: it would walk every element of a returned typed array.
-    tf.tidy(() => {
-      forwardBackward(h).dataSync();
-    });
-  })]);
+  ours.push([
+    `sparseMatMul forward + backward (${tf.getBackend()})`,
+    'forwardBackward',
+    await medianMs(() => {
+      // Nothing is returned from tidy: it would walk every element of a returned typed array.
+      tf.tidy(() => {
+        forwardBackward(h).dataSync();
+      });
+    }),
+  ]);
   h.dispose();
 
   const propagate = (multiply: (a: CsrMatrix, dense: Float32Array) => Float32Array | Promise<Float32Array>) => async () => {
@@ -157,17 +183,24 @@ async function benchmarkShape(shape: Shape, pool: SpmmPool, print: (line: string
     return [features, once, await multiply(a, once)];
   };
   ours.push(['propagate [X, ÂX, Â²X], 1 thread', 'propagate', await medianMs(propagate((a, dense) => spmm(a, dense, shape.columns)))]);
-  ours.push([`propagate [X, ÂX, Â²X], ${pool.threadCount} threads`, 'propagate', await medianMs(propagate((a, dense) => pool.multiply(a, dense, shape.columns)))]);
+  ours.push([
+    `propagate [X, ÂX, Â²X], ${pool.threadCount} threads`,
+    'propagate',
+    await medianMs(propagate((a, dense) => pool.multiply(a, dense, shape.columns))),
+  ]);
 
-  const widths = [46, 9, 10, 12, 9];
+  const widths = [46, 9, 9, 10, 10, 8, 8];
   print('');
-  print(`${shape.nodes.toLocaleString('en')} nodes, ${shape.edges.toLocaleString('en')} edges (${normalized.rowPtr[shape.nodes].toLocaleString('en')} entries in Â), ${shape.columns} columns`);
-  print(row(['kernel', 'ours ms', 'torch ms', 'torch (notes)', 'ratio'], widths));
-  for (const [label, kernel, ms] of ours) {
+  print(
+    `${shape.nodes.toLocaleString('en')} nodes, ${shape.edges.toLocaleString('en')} edges (${normalized.rowPtr[shape.nodes].toLocaleString('en')} entries in Â), ${shape.columns} columns`,
+  );
+  print(row(['kernel', 'ours ms', 'ours cpu', 'torch ms', 'torch cpu', 'notes', 'ratio'], widths));
+  for (const [label, kernel, [wall, cpu]] of ours) {
     const here = kernel ? torch?.[kernel] : undefined;
     const noted = kernel ? FIELD_NOTES_MS[`${kernel} ${shape.nodes}`] : undefined;
-    const reference = here ?? noted;
-    print(row([label, formatMs(ms), formatMs(here), formatMs(noted), reference ? `${(ms / reference).toFixed(2)}×` : '—'], widths));
+    const reference = here ? here[0] : noted;
+    const ratio = reference ? `${(wall / reference).toFixed(2)}×` : '—';
+    print(row([label, formatMs(wall), formatMs(cpu), formatMs(here?.[0]), formatMs(here?.[1]), formatMs(noted), ratio], widths));
   }
 }
 
@@ -175,11 +208,17 @@ async function benchmarkShape(shape: Shape, pool: SpmmPool, print: (line: string
 export async function runKernelBenchmarks(print: (line: string) => void, shapes: Shape[] = SHAPES): Promise<void> {
   const backend = await initTensorflow('wasm');
   const python = findPython();
-  print(`Graph kernels — medians of ${RUNS} runs after a warm-up; tfjs backend ${backend}.`);
+  // FIELD-NOTES: 47 ms for the CSR product at 20k; the naive JS loop's 125 ms there matches about
+  // 200,000 stored entries, so that figure may be for half the entries of Â here (edges stored
+  // twice, plus self-loops): compare with the torch column timed on the same shape when present.
+  print(
+    `Graph kernels — medians of ${RUNS} runs after a warm-up; tfjs backend ${backend}; load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores.`,
+  );
+  print("ms = wall time; cpu = process CPU time over all threads (on a busy machine, the better guide to one thread's own cost).");
   print(
     python
-      ? `PyTorch timed here (${python}, 2 threads, same shapes, its own random graph); ratio = ours / torch here.`
-      : 'PyTorch not installed (apt-get install -y python3-torch): ratio against the FIELD-NOTES figures only.',
+      ? `PyTorch timed here (${python}, 2 threads, same shapes, its own random graph); ratio = ours / torch wall time here.`
+      : 'PyTorch not installed (apt-get install -y python3-torch): ratio against the FIELD-NOTES figures (notes) only.',
   );
   const pool = await SpmmPool.create(2);
   try {

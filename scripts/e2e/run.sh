@@ -32,9 +32,19 @@ echo "[e2e] package: $vsix, $(du -k "$vsix" | cut -f1) KiB, $package_seconds s"
 
 phase_start="$(now)"
 browser_limit="${E2E_TIMEOUT_SECONDS:-600}"
+# The driver stops code-server and Chromium itself, also on SIGTERM. `timeout` (its own process
+# group) is the last resort if the driver hangs: SIGTERM past the limit, SIGKILL 30 s later.
+# Node loads tsx in-process, so the signal reaches the driver itself, not a wrapper.
+timeout --kill-after=30 "$((browser_limit + 60))" node --import tsx test/e2e/run.e2e.ts --vsix "$vsix" &
+driver=$!
+# Ctrl-C or a CI cancel reaches this shell, not timeout's group: pass it on, then wait for the
+# driver to finish cleaning up.
+trap 'echo "[e2e] interrupted: stopping the browser run" >&2; kill -TERM "$driver" 2>/dev/null || true' INT TERM
 status=0
-# The driver stops code-server and Chromium itself (also on SIGTERM); `timeout` is the last
-# resort when the driver itself hangs, with SIGKILL 30 s after SIGTERM.
-timeout --kill-after=30 "$((browser_limit + 60))" npx tsx test/e2e/run.e2e.ts --vsix "$vsix" || status=$?
+wait "$driver" || status=$?
+if ((status > 128)) && kill -0 "$driver" 2>/dev/null; then
+  wait "$driver" || status=$?
+fi
+trap - INT TERM
 echo "[e2e] timings: setup $setup_seconds s, package $package_seconds s, browser run $(elapsed "$phase_start") s, total $(elapsed "$run_start") s"
 exit "$status"

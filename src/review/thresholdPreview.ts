@@ -2,6 +2,12 @@
 // move of a slider. It runs the scoring path itself (src/engine/scoring and the pipeline's
 // rejection rule) on the run's stored outputs, caching what a setting change leaves untouched:
 // the raw novelty depends on α only, the smoothing on α and λ, the quantile cut on all three.
+//
+// Smoothing is linear: R rounds of s ← (1 − λ)s + λ·Ms (M = neighbour mean, identity on an
+// isolated node) give Σ_k C(R, k)(1 − λ)^(R−k) λ^k M^k s. The M^k s are smoothNovelty rounds with
+// λ = 1, computed once per α, so moving λ costs one pass over the nodes instead of R passes over
+// the edges. Every term is ≥ 0 for DOC novelty, so "smoothed novelty > 0" comes out exactly as
+// with smoothNovelty(s, λ, R); values agree to float32 rounding.
 import type { CsrMatrix } from '../engine/graph/csr';
 import { localNodesOfSlice, rejectedAmong, type PrefixFit } from '../engine/pipeline/modelOnPrefix';
 import type { NoveltyMethod, RunSettings } from '../engine/pipeline/runSettings';
@@ -31,6 +37,12 @@ export interface ThresholdPreviewInput {
   minCandidateSize?: number;
 }
 
+function binomial(n: number, k: number): number {
+  let value = 1;
+  for (let j = 1; j <= k; j++) value = (value * (n - k + j)) / j;
+  return value;
+}
+
 export type ThresholdPreviewer = (setting: ThresholdSetting) => ThresholdPreviewResult;
 
 export function createThresholdPreviewer(input: ThresholdPreviewInput): ThresholdPreviewer {
@@ -42,21 +54,35 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
   const noveltyLength = input.novelty.kind === 'doc' ? input.novelty.probabilities.length / input.novelty.classCount : input.novelty.noveltyRaw.length;
   if (noveltyLength !== localCount) throw new Error(`threshold preview: ${noveltyLength} scored rows for a graph of ${localCount} nodes`);
 
-  let rawFor: { alpha: number; raw: Float32Array } | null = null;
+  let rawFor: { alpha: number; powers: Float32Array[] } | null = null;
   let smoothedFor: { alpha: number; lambda: number; smoothed: Float32Array } | null = null;
-  const rawNovelty = (alpha: number): Float32Array => {
+  /** M^k s for k = 0..R, for the α they were computed with. */
+  const rawPowers = (alpha: number): Float32Array[] => {
     const source = input.novelty;
-    if (source.kind === 'fixed') return source.noveltyRaw;
-    if (rawFor?.alpha !== alpha) {
-      const thresholds = docThresholds(source.probabilities, source.classCount, source.trainNodes, source.trainClasses, alpha);
-      rawFor = { alpha, raw: docNovelty(source.probabilities, source.classCount, thresholds) };
+    const key = source.kind === 'doc' ? alpha : 0;
+    if (rawFor?.alpha !== key) {
+      let raw: Float32Array;
+      if (source.kind === 'fixed') raw = source.noveltyRaw;
+      else raw = docNovelty(source.probabilities, source.classCount, docThresholds(source.probabilities, source.classCount, source.trainNodes, source.trainClasses, alpha));
+      const powers = [raw];
+      for (let k = 1; k <= input.smoothingRounds; k++) powers.push(smoothNovelty(powers[k - 1], input.adjacency, 1, 1));
+      rawFor = { alpha: key, powers };
     }
-    return rawFor.raw;
+    return rawFor.powers;
   };
   const smoothed = (alpha: number, lambda: number): Float32Array => {
     const alphaKey = input.novelty.kind === 'doc' ? alpha : 0;
     if (smoothedFor?.alpha !== alphaKey || smoothedFor.lambda !== lambda) {
-      smoothedFor = { alpha: alphaKey, lambda, smoothed: smoothNovelty(rawNovelty(alpha), input.adjacency, lambda, input.smoothingRounds) };
+      const powers = rawPowers(alpha);
+      const rounds = input.smoothingRounds;
+      const weights = powers.map((_, k) => binomial(rounds, k) * (1 - lambda) ** (rounds - k) * lambda ** k);
+      const out = new Float32Array(localCount);
+      for (let i = 0; i < localCount; i++) {
+        let total = 0;
+        for (let k = 0; k <= rounds; k++) total += weights[k] * powers[k][i];
+        out[i] = total;
+      }
+      smoothedFor = { alpha: alphaKey, lambda, smoothed: out };
     }
     return smoothedFor.smoothed;
   };

@@ -39,7 +39,7 @@ function manifestWith(p: string, value: unknown): { text: string; line: number; 
   cursor[parts[parts.length - 1]] = value;
   const text = JSON.stringify(root, null, 2);
   // Locate the value: the line holding `"last": ` inside the right parent, found by a marker.
-  const marker = JSON.stringify(root, (k, v) => (k === parts[parts.length - 1] && v === value ? '@@MARK@@' : v), 2);
+  const marker = JSON.stringify(root, (k, v: unknown) => (k === parts[parts.length - 1] && v === value ? '@@MARK@@' : v), 2);
   const index = marker.indexOf('"@@MARK@@"');
   const before = marker.slice(0, index);
   const line = before.split('\n').length;

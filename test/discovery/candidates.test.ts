@@ -15,7 +15,12 @@ function plantedGraph(extra: PlantedGroup[] = []): PlantedGraph {
     insideLinkProbability: 0.15,
     acrossLinkProbability: 0.005,
     sliceCount: 4,
-    groups: [...knownGroups, { size: 60, known: false, blobs: 2, blobOffset: 8, firstSlice: 2 }, { size: 50, known: false, firstSlice: 1 }, ...extra],
+    groups: [
+      ...knownGroups,
+      { size: 60, known: false, blobs: 2, blobOffset: 8, firstSlice: 2 },
+      { size: 50, known: false, firstSlice: 1 },
+      ...extra,
+    ],
   });
 }
 
@@ -71,14 +76,19 @@ describe('discovery/discoverCandidates', () => {
       assert.ok(graph.vocabularyOf[plantedGroup].includes(candidate.topTerms[0].term), `top term ${candidate.topTerms[0].term}`);
       assert.ok(!candidate.topTerms.some((t) => t.term === 'the'), 'stop words dropped');
       assert.equal(candidate.sliceCounts.map((s) => s.slice).join(), graph.sliceKeys.join());
-      assert.equal(candidate.sliceCounts.reduce((sum, s) => sum + s.count, 0), candidate.size);
+      assert.equal(
+        candidate.sliceCounts.reduce((sum, s) => sum + s.count, 0),
+        candidate.size,
+      );
       const firstSlice = plantedGroup === 4 ? 2 : 1;
       for (let s = 0; s < firstSlice; s++) assert.equal(candidate.sliceCounts[s].count, 0, 'nothing before the group emerged');
       // Nearest members: distances to the mean embedding, recomputed here.
       const dim = graph.dim;
       const centre = new Float64Array(dim);
       for (const node of candidate.members) for (let d = 0; d < dim; d++) centre[d] += graph.embeddings[node * dim + d] / candidate.size;
-      const distances = Array.from(candidate.members, (node) => Math.hypot(...Array.from(centre, (x, d) => graph.embeddings[node * dim + d] - x))).sort((a, b) => a - b);
+      const distances = Array.from(candidate.members, (node) =>
+        Math.hypot(...Array.from(centre, (x, d) => graph.embeddings[node * dim + d] - x)),
+      ).sort((a, b) => a - b);
       assert.equal(candidate.nearestMembers.length, 5);
       candidate.nearestMembers.forEach((m, i) => {
         assert.ok(Math.abs(m.distance - distances[i]) < 1e-4);
@@ -95,8 +105,14 @@ describe('discovery/discoverCandidates', () => {
           if (graph.labels[other] >= 0) labelledNeighbours.add(other);
         }
       }
-      assert.equal(candidate.edgesToClasses.reduce((sum, c) => sum + c.edges, 0), linksOut);
-      assert.equal(candidate.neighbourClasses.reduce((sum, c) => sum + c.count, 0), labelledNeighbours.size);
+      assert.equal(
+        candidate.edgesToClasses.reduce((sum, c) => sum + c.edges, 0),
+        linksOut,
+      );
+      assert.equal(
+        candidate.neighbourClasses.reduce((sum, c) => sum + c.count, 0),
+        labelledNeighbours.size,
+      );
       assert.equal(candidate.looksLikeDrift, false);
       assert.ok(candidate.nearestKnownClass && graph.classNames.includes(candidate.nearestKnownClass.className));
       assert.ok(candidate.cohesion > 0 && candidate.cohesion <= 1);
@@ -115,7 +131,9 @@ describe('discovery/discoverCandidates', () => {
   });
 
   it('recovers the groups too when k is chosen on a sample and silhouettes are estimated', () => {
-    const sampled = discoverCandidates(inputFor(graph, rejected, { sampleThreshold: 60, silhouetteSampleSize: 70, exactSilhouetteLimit: 50 }));
+    const sampled = discoverCandidates(
+      inputFor(graph, rejected, { sampleThreshold: 60, silhouetteSampleSize: 70, exactSilhouetteLimit: 50 }),
+    );
     assert.ok(recoveryAri(graph, rejected, sampled) >= 0.8, `ARI ${recoveryAri(graph, rejected, sampled)}`);
     assert.equal(sampled.silhouettes.length, rejected.length);
   });
@@ -165,7 +183,10 @@ describe('discovery/discoverCandidates', () => {
     const inCandidates = new Set(found.candidates.flatMap((c) => Array.from(c.members)));
     const smallGroupLeftovers = Array.from(found.scattered).filter((node) => !expected.includes(node));
     assert.ok(expected.length > 0, 'some loner has a negative silhouette and no rejected neighbour');
-    assert.deepEqual(Array.from(found.scattered).filter((node) => expected.includes(node)), expected);
+    assert.deepEqual(
+      Array.from(found.scattered).filter((node) => expected.includes(node)),
+      expected,
+    );
     for (const node of expected) assert.ok(!inCandidates.has(node));
     // Anything else scattered came from a group smaller than minCandidateSize.
     assert.ok(smallGroupLeftovers.length < 3 * found.groupCountAfterMerge);
@@ -188,7 +209,10 @@ describe('discovery/discoverCandidates', () => {
   });
 
   it('rejects inconsistent input with a message naming the field', () => {
-    assert.throws(() => discoverCandidates(inputFor(graph, rejected, { embeddings: new Float32Array(10) })), /embeddings .* has 10 entries/);
+    assert.throws(
+      () => discoverCandidates(inputFor(graph, rejected, { embeddings: new Float32Array(10) })),
+      /embeddings .* has 10 entries/,
+    );
     assert.throws(() => discoverCandidates(inputFor(graph, Int32Array.from([1, 1]))), /listed twice/);
     assert.throws(() => discoverCandidates(inputFor(graph, Int32Array.from([graph.nodeCount]))), /not a node index/);
     assert.throws(() => discoverCandidates(inputFor(graph, rejected, { kRange: [1, 4] })), /kRange/);

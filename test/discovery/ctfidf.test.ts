@@ -10,8 +10,14 @@ describe('discovery/classTfidfTopTerms', () => {
   //            banana = 1/2 · ln 2.25                       ≈ 0.405465
   it('matches a hand-worked example', () => {
     const [first, second] = classTfidfTopTerms([['apple apple banana'], ['banana cherry']], 5, new Set());
-    assert.deepEqual(first.map((t) => t.term), ['apple', 'banana']);
-    assert.deepEqual(second.map((t) => t.term), ['cherry', 'banana']);
+    assert.deepEqual(
+      first.map((t) => t.term),
+      ['apple', 'banana'],
+    );
+    assert.deepEqual(
+      second.map((t) => t.term),
+      ['cherry', 'banana'],
+    );
     assert.ok(Math.abs(first[0].weight - (2 / 3) * Math.log(2.25)) < 1e-12);
     assert.ok(Math.abs(first[1].weight - (1 / 3) * Math.log(2.25)) < 1e-12);
     assert.ok(Math.abs(second[0].weight - 0.5 * Math.log(3.5)) < 1e-12);
@@ -24,6 +30,12 @@ describe('discovery/classTfidfTopTerms', () => {
   });
 
   it('tokenizes letters and digits, lower-cased, without one-letter tokens or bare numbers', () => {
-    assert.deepEqual(tokenize('Gearbox-fault: 2024 X vibration_level3, Überhitzung'), ['gearbox', 'fault', 'vibration', 'level3', 'überhitzung']);
+    assert.deepEqual(tokenize('Gearbox-fault: 2024 X vibration_level3, Überhitzung'), [
+      'gearbox',
+      'fault',
+      'vibration',
+      'level3',
+      'überhitzung',
+    ]);
   });
 });

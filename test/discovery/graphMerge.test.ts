@@ -5,12 +5,26 @@ import { buildAdjacency } from '../../src/engine/graph/csr';
 /** Nine nodes in three triangles (groups 0, 1, 2) plus the given cross edges, as a symmetric adjacency. */
 function triangles(cross: [number, number][]) {
   const edges: [number, number][] = [[0, 1], [0, 2], [1, 2], [3, 4], [3, 5], [4, 5], [6, 7], [6, 8], [7, 8], ...cross];
-  return buildAdjacency(9, { source: Int32Array.from(edges.map((e) => e[0])), target: Int32Array.from(edges.map((e) => e[1])), weight: null, count: edges.length }, true);
+  return buildAdjacency(
+    9,
+    { source: Int32Array.from(edges.map((e) => e[0])), target: Int32Array.from(edges.map((e) => e[1])), weight: null, count: edges.length },
+    true,
+  );
 }
 
 const items = Int32Array.from([0, 1, 2, 3, 4, 5, 6, 7, 8]);
 const groups = Int32Array.from([0, 0, 0, 1, 1, 1, 2, 2, 2]);
-const groupZeroToOne: [number, number][] = [[0, 3], [0, 4], [0, 5], [1, 3], [1, 4], [1, 5], [2, 3], [2, 4], [2, 5]];
+const groupZeroToOne: [number, number][] = [
+  [0, 3],
+  [0, 4],
+  [0, 5],
+  [1, 3],
+  [1, 4],
+  [1, 5],
+  [2, 3],
+  [2, 4],
+  [2, 5],
+];
 
 describe('discovery/mergeLinkedGroups', () => {
   // Worked by hand: each triangle has within-density 6 links / (3·2) = 1. Between groups 0 and 1

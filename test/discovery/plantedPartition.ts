@@ -103,16 +103,36 @@ export function plantedPartition(options: PlantedOptions): PlantedGraph {
   const target: number[] = [];
   for (let u = 0; u < nodeCount; u++) {
     for (let v = u + 1; v < nodeCount; v++) {
-      const p = group[u] === group[v] ? (groups[group[u]].insideLinkProbability ?? options.insideLinkProbability) : options.acrossLinkProbability;
+      const p =
+        group[u] === group[v] ? (groups[group[u]].insideLinkProbability ?? options.insideLinkProbability) : options.acrossLinkProbability;
       if (random.next() < p) {
         source.push(u);
         target.push(v);
       }
     }
   }
-  const adjacency = buildAdjacency(nodeCount, { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length }, true);
+  const adjacency = buildAdjacency(
+    nodeCount,
+    { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length },
+    true,
+  );
   const sliceKeys = Array.from({ length: options.sliceCount }, (_, s) => `2024-Q${s + 1}`);
-  return { nodeCount, dim, embeddings, adjacency, group, labels, predictedClass, classNames, nodeText, nodeSlice, sliceKeys, noveltyScore, membersOf, vocabularyOf };
+  return {
+    nodeCount,
+    dim,
+    embeddings,
+    adjacency,
+    group,
+    labels,
+    predictedClass,
+    classNames,
+    nodeText,
+    nodeSlice,
+    sliceKeys,
+    noveltyScore,
+    membersOf,
+    vocabularyOf,
+  };
 }
 
 /** Concatenation of the given groups' members, ascending. */

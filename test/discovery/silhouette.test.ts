@@ -25,7 +25,8 @@ const handMean = (9 / 13 + 5 / 9 - 5 / 7 + 2 / 9) / 5;
 
 function close(actual: ArrayLike<number>, expected: ArrayLike<number>, tolerance = 1e-6): void {
   assert.equal(actual.length, expected.length);
-  for (let i = 0; i < expected.length; i++) assert.ok(Math.abs(actual[i] - expected[i]) < tolerance, `[${i}] ${actual[i]} vs ${expected[i]}`);
+  for (let i = 0; i < expected.length; i++)
+    assert.ok(Math.abs(actual[i] - expected[i]) < tolerance, `[${i}] ${actual[i]} vs ${expected[i]}`);
 }
 
 describe('discovery/silhouette', () => {

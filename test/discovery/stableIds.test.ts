@@ -10,7 +10,13 @@ describe('discovery/assignStableIds', () => {
   it('keeps the id and decision at Jaccard exactly 0.5, not below', () => {
     // {1,2,3,4} vs {1,2,3,4,5,6,7,8}: 4 shared / 8 in the union = 0.5 → same candidate.
     // {10,11,12} vs {10..15} plus {20,21,22,23}: 3 / 10 = 0.3 → a new one.
-    const [a, b] = assignStableIds([[1, 2, 3, 4, 5, 6, 7, 8], [10, 11, 12, 20, 21, 22, 23]], previous);
+    const [a, b] = assignStableIds(
+      [
+        [1, 2, 3, 4, 5, 6, 7, 8],
+        [10, 11, 12, 20, 21, 22, 23],
+      ],
+      previous,
+    );
     assert.deepEqual(a, { id: 'cand-old-a', decision: { action: 'accept', name: 'Icing' } });
     assert.notEqual(b.id, 'cand-old-b');
     assert.equal(b.decision, undefined);
@@ -19,7 +25,13 @@ describe('discovery/assignStableIds', () => {
 
   it('gives an earlier id to one new candidate only: the best overlap', () => {
     // {10..14}: 5/6 ≈ 0.83; {10..15, 16}: 6/7 ≈ 0.86 → the second one keeps cand-old-b.
-    const ids = assignStableIds([[10, 11, 12, 13, 14], [10, 11, 12, 13, 14, 15, 16]], previous);
+    const ids = assignStableIds(
+      [
+        [10, 11, 12, 13, 14],
+        [10, 11, 12, 13, 14, 15, 16],
+      ],
+      previous,
+    );
     assert.equal(ids[1].id, 'cand-old-b');
     assert.notEqual(ids[0].id, 'cand-old-b');
   });

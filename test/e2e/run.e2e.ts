@@ -1,6 +1,6 @@
 // End-to-end run in a real VS Code (code-server) with the packaged extension installed from its
 // .vsix, as a user would have it. Run through `npm run test:e2e` (scripts/e2e/run.sh), which sets
-// up code-server and builds the .vsix first; or directly: npx tsx test/e2e/run.e2e.ts [--vsix FILE] [--keep]
+// up code-server and builds the .vsix first; or directly: node --import tsx test/e2e/run.e2e.ts [--vsix FILE] [--keep]
 //
 // Each step leaves a screenshot in test-output/e2e-screenshots/. The process exits 0 when every
 // check passed and 1 otherwise, and never leaves code-server or Chromium running.
@@ -25,7 +25,7 @@ import {
   waitForNotification,
   waitForProblemRows,
 } from './harness/workbench';
-import { copyWithDuplicateNodeId, createWorkspace } from './harness/workspace';
+import { copyWithDuplicateNodeId, countCsvRecords, createWorkspace } from './harness/workspace';
 
 const commandTitles = {
   validate: 'Graph Curator: Validate Dataset Folder',
@@ -109,7 +109,10 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
         missing = Object.values(commandTitles).filter((title) => !entries.some((entry) => entry.includes(title)));
       } while (missing.length > 0 && Date.now() < deadline);
       console.log(`       palette entries for "Graph Curator": ${entries.join(' | ') || '(none)'}`);
-      assert(missing.length === 0, `missing from the command palette: ${missing.join(', ')}; it listed: ${entries.join(' | ') || '(none)'}`);
+      assert(
+        missing.length === 0,
+        `missing from the command palette: ${missing.join(', ')}; it listed: ${entries.join(' | ') || '(none)'}`,
+      );
     });
 
     await steps.step('validate-demo-dataset', engineRequestTimeoutMs + 30_000, async () => {
@@ -119,14 +122,30 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
     });
 
     await steps.step('show-summary', engineRequestTimeoutMs + 30_000, async () => {
+      // Counted here from the files themselves, so the check does not depend on the engine's
+      // own counting or on the summary's layout: the folder and both counts must appear.
+      const nodeCount = countCsvRecords(path.join(workspace.datasetFolder, 'nodes.csv'));
+      const labelCount = countCsvRecords(path.join(workspace.datasetFolder, 'labels.csv'));
+      const expected = [
+        workspace.datasetFolder,
+        ...[nodeCount, labelCount].map((count) => new RegExp(`\\b${count.toLocaleString('en-US').replaceAll(',', ',?')}\\b`)),
+      ];
       await runCommand(page, commandTitles.summary);
-      const header = `Dataset '${datasetName}' (${workspace.datasetFolder})`;
       const deadline = Date.now() + engineRequestTimeoutMs;
-      while (!outputChannelText(folders.userDataDir, 'Graph Curator').includes(header)) {
-        assert(Date.now() < deadline, `the "Graph Curator" output channel never showed "${header}"`);
+      let text = '';
+      const missing = (): (string | RegExp)[] =>
+        expected.filter((item) => (typeof item === 'string' ? !text.includes(item) : !item.test(text)));
+      while ((text = outputChannelText(folders.userDataDir, 'Graph Curator')) === '' || missing().length > 0) {
+        assert(
+          Date.now() < deadline,
+          `the "Graph Curator" output channel lacks ${missing().join(', ')}; it reads:\n${text.slice(0, 2000)}`,
+        );
         await page.waitForTimeout(500);
       }
-      await page.locator('.part.panel .output-view, .part.panel [id="workbench.panel.output"]').first().waitFor({ state: 'visible', timeout: 10_000 });
+      await page
+        .locator('.part.panel .output-view, .part.panel [id="workbench.panel.output"]')
+        .first()
+        .waitFor({ state: 'visible', timeout: 10_000 });
     });
 
     const brokenFolder = path.join(workspace.root, `${datasetName}-broken`);
@@ -138,16 +157,23 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       await runCommand(page, commandTitles.validate);
       // Two dataset.json files now: the command asks which folder.
       await chooseQuickPickItem(page, path.basename(brokenFolder));
-      await waitForNotification(page, new RegExp(`Dataset '${escapeRegExp(path.basename(brokenFolder))}' has \\d+ problems?`), engineRequestTimeoutMs);
+      await waitForNotification(
+        page,
+        new RegExp(`Dataset '${escapeRegExp(path.basename(brokenFolder))}' has \\d+ problems?`),
+        engineRequestTimeoutMs,
+      );
     });
 
     await steps.step('problem-in-problems-panel', 60_000, async () => {
-      // A marker row reads like: `duplicate id "R000001" ... Graph Curator [Ln 3, Col 1]`.
-      const problemRow = new RegExp(`${escapeRegExp(defect.id)}.*\\[Ln ${defect.line}, Col \\d+\\]`);
+      // A marker row reads like: `duplicate node id "R000001" (first on line 2) Graph Curator [Ln 3, Col 1]`.
+      const problemRow = new RegExp(`duplicate.*${escapeRegExp(defect.id)}.*\\[Ln ${defect.line}, Col \\d+\\]`, 'i');
       const rows = await waitForProblemRows(page, problemRow, 30_000);
       const fileRowIndex = rows.findIndex((row) => row.startsWith(defect.file) && row.includes(path.basename(brokenFolder)));
       const problemIndex = rows.findIndex((row) => problemRow.test(row));
-      assert(fileRowIndex >= 0, `the Problems panel has no "${defect.file}" entry under ${path.basename(brokenFolder)}; rows: ${rows.join(' | ')}`);
+      assert(
+        fileRowIndex >= 0,
+        `the Problems panel has no "${defect.file}" entry under ${path.basename(brokenFolder)}; rows: ${rows.join(' | ')}`,
+      );
       assert(fileRowIndex < problemIndex, `the problem is not listed under ${defect.file}; rows: ${rows.join(' | ')}`);
     });
 
@@ -188,7 +214,7 @@ async function main(): Promise<number> {
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {
     process.once(signal, () => {
       console.error(`\nend-to-end run interrupted (${signal}); stopping code-server and the browser`);
-      void cleanUp(true).finally(() => process.exit(signal === 'SIGINT' ? 130 : 143));
+      void cleanUp(false).finally(() => process.exit(signal === 'SIGINT' ? 130 : 143));
     });
   }
   const started = Date.now();
@@ -198,14 +224,19 @@ async function main(): Promise<number> {
     await Promise.race([
       scenario(options, resources, tempRoot),
       new Promise<never>((_, reject) => {
-        watchdog = setTimeout(() => reject(new Error(`the whole run took longer than ${runTimeoutMs / 1000} s (E2E_TIMEOUT_SECONDS)`)), runTimeoutMs);
+        watchdog = setTimeout(
+          () => reject(new Error(`the whole run took longer than ${runTimeoutMs / 1000} s (E2E_TIMEOUT_SECONDS)`)),
+          runTimeoutMs,
+        );
       }),
     ]);
     await cleanUp(options.keepTemp);
     console.log(`end-to-end run passed in ${((Date.now() - started) / 1000).toFixed(1)} s; screenshots in ${screenshotsDir}`);
     return 0;
   } catch (error) {
-    console.error(`\nend-to-end run FAILED after ${((Date.now() - started) / 1000).toFixed(1)} s: ${error instanceof Error ? error.message : String(error)}`);
+    console.error(
+      `\nend-to-end run FAILED after ${((Date.now() - started) / 1000).toFixed(1)} s: ${error instanceof Error ? error.message : String(error)}`,
+    );
     console.error(`screenshots: ${screenshotsDir}; logs: ${logsDir}`);
     await cleanUp(true);
     return 1;

@@ -7,14 +7,34 @@ describe('buildAdjacency', () => {
   it('sorts rows, sums repeated edges and keeps a given self-loop once (hand case)', () => {
     // Edges 2-0 (w 1), 0-2 again (w 2), 1-1 (w 5), 2-1 (w 3) on 3 nodes, undirected:
     // row 0: {2: 1 + 2}; row 1: {1: 5, 2: 3}; row 2: {0: 3, 1: 3}.
-    const adjacency = buildAdjacency(3, edgeList([[2, 0], [0, 2], [1, 1], [2, 1]], [1, 2, 5, 3]), true);
+    const adjacency = buildAdjacency(
+      3,
+      edgeList(
+        [
+          [2, 0],
+          [0, 2],
+          [1, 1],
+          [2, 1],
+        ],
+        [1, 2, 5, 3],
+      ),
+      true,
+    );
     assert.deepEqual(Array.from(adjacency.rowPtr), [0, 1, 3, 5]);
     assert.deepEqual(Array.from(adjacency.colIndex), [2, 1, 2, 0, 1]);
     assert.deepEqual(Array.from(adjacency.values), [3, 5, 3, 3, 3]);
   });
 
   it('keeps direction when symmetric is false', () => {
-    const adjacency = buildAdjacency(3, edgeList([[0, 2], [0, 1], [2, 1]]), false);
+    const adjacency = buildAdjacency(
+      3,
+      edgeList([
+        [0, 2],
+        [0, 1],
+        [2, 1],
+      ]),
+      false,
+    );
     assert.deepEqual(Array.from(rowLengths(adjacency)), [2, 0, 1]);
     assert.deepEqual(Array.from(adjacency.colIndex), [1, 2, 1]);
   });
@@ -31,7 +51,8 @@ describe('buildAdjacency', () => {
     const adjacency = buildAdjacency(50, edges, true);
     assert.ok(maxAbsDifference(toDense(adjacency), denseAdjacency(50, edges)) < 1e-6);
     for (let row = 0; row < 50; row++) {
-      for (let k = adjacency.rowPtr[row] + 1; k < adjacency.rowPtr[row + 1]; k++) assert.ok(adjacency.colIndex[k] > adjacency.colIndex[k - 1]);
+      for (let k = adjacency.rowPtr[row] + 1; k < adjacency.rowPtr[row + 1]; k++)
+        assert.ok(adjacency.colIndex[k] > adjacency.colIndex[k - 1]);
     }
   });
 
@@ -48,7 +69,18 @@ describe('buildAdjacency', () => {
   });
 
   it('names the edge whose node index is out of range', () => {
-    assert.throws(() => buildAdjacency(3, edgeList([[0, 1], [1, 3]]), true), /edge 1 joins node indices 1 and 3, outside 0..2/);
+    assert.throws(
+      () =>
+        buildAdjacency(
+          3,
+          edgeList([
+            [0, 1],
+            [1, 3],
+          ]),
+          true,
+        ),
+      /edge 1 joins node indices 1 and 3, outside 0..2/,
+    );
   });
 });
 

@@ -20,7 +20,8 @@ function denseGcn(nodeCount: number, adjacency: Float64Array): Float64Array {
 
 function assertSortedRows(m: CsrMatrix): void {
   for (let row = 0; row < m.rowCount; row++) {
-    for (let k = m.rowPtr[row] + 1; k < m.rowPtr[row + 1]; k++) assert.ok(m.colIndex[k] > m.colIndex[k - 1], `row ${row} not strictly sorted`);
+    for (let k = m.rowPtr[row] + 1; k < m.rowPtr[row + 1]; k++)
+      assert.ok(m.colIndex[k] > m.colIndex[k - 1], `row ${row} not strictly sorted`);
   }
 }
 
@@ -29,7 +30,16 @@ describe('symmetricNormalized (GCN)', () => {
     // Degrees of A + I: node 0 → 2, node 1 → 3, node 2 → 2, node 3 (isolated) → 1.
     // Â[0][0] = 1/2, Â[0][1] = 1/√(2·3) = 1/√6 ≈ 0.408248, Â[1][1] = 1/3, Â[1][2] = 1/√6,
     // Â[2][2] = 1/2, Â[3][3] = 1/1 = 1, and 0 elsewhere (worked by hand).
-    const normalized = symmetricNormalized(buildAdjacency(4, edgeList([[0, 1], [1, 2]]), true));
+    const normalized = symmetricNormalized(
+      buildAdjacency(
+        4,
+        edgeList([
+          [0, 1],
+          [1, 2],
+        ]),
+        true,
+      ),
+    );
     const s6 = 1 / Math.sqrt(6);
     const expected = [
       [0.5, s6, 0, 0],
@@ -47,7 +57,17 @@ describe('symmetricNormalized (GCN)', () => {
     // Â[0][0] = 1/4, Â[0][leaf] = 1/√(4·2) = 1/(2√2) ≈ 0.353553, Â[leaf][leaf] = 1/2.
     // With X = [[1, 0], [0, 1], [0, 1], [0, 1]] (centre marked in column 0, leaves in column 1):
     // (ÂX)[0] = [1/4, 3/(2√2)] ≈ [0.25, 1.060660], (ÂX)[leaf] = [1/(2√2), 1/2] ≈ [0.353553, 0.5].
-    const normalized = symmetricNormalized(buildAdjacency(4, edgeList([[0, 1], [0, 2], [0, 3]]), true));
+    const normalized = symmetricNormalized(
+      buildAdjacency(
+        4,
+        edgeList([
+          [0, 1],
+          [0, 2],
+          [0, 3],
+        ]),
+        true,
+      ),
+    );
     const features = Float32Array.from([1, 0, 0, 1, 0, 1, 0, 1]);
     const propagated = spmm(normalized, features, 2);
     const leaf = [1 / (2 * Math.SQRT2), 0.5];
@@ -117,7 +137,13 @@ describe('symmetricNormalized (GCN)', () => {
   });
 
   it('rejects a non-square matrix', () => {
-    const rectangular: CsrMatrix = { rowCount: 2, colCount: 3, rowPtr: new Int32Array(3), colIndex: new Int32Array(0), values: new Float32Array(0) };
+    const rectangular: CsrMatrix = {
+      rowCount: 2,
+      colCount: 3,
+      rowPtr: new Int32Array(3),
+      colIndex: new Int32Array(0),
+      values: new Float32Array(0),
+    };
     assert.throws(() => symmetricNormalized(rectangular), /must be square, got 2 × 3/);
   });
 });
@@ -127,7 +153,16 @@ describe('meanNormalized (GraphSAGE mean)', () => {
   // without self-loops the centre averages its three leaves (1/3 each), each leaf copies the
   // centre (1), the isolated row stays empty; with self-loops the centre row is 1/4 × 4 and each
   // leaf row is 1/2 on the centre and 1/2 on itself, and the isolated node keeps itself (1).
-  const star = () => buildAdjacency(5, edgeList([[0, 1], [0, 2], [0, 3]]), true);
+  const star = () =>
+    buildAdjacency(
+      5,
+      edgeList([
+        [0, 1],
+        [0, 2],
+        [0, 3],
+      ]),
+      true,
+    );
 
   it('averages neighbours without self-loops and leaves empty rows empty', () => {
     const mean = meanNormalized(star(), false);
@@ -191,7 +226,20 @@ describe('meanNormalized (GraphSAGE mean)', () => {
 
 describe('addSelfLoops', () => {
   it('inserts a missing diagonal in column order and adds 1 to an existing one', () => {
-    const looped = addSelfLoops(buildAdjacency(3, edgeList([[0, 2], [1, 1], [2, 1]], [2, 3, 4]), false));
+    const looped = addSelfLoops(
+      buildAdjacency(
+        3,
+        edgeList(
+          [
+            [0, 2],
+            [1, 1],
+            [2, 1],
+          ],
+          [2, 3, 4],
+        ),
+        false,
+      ),
+    );
     assert.deepEqual(Array.from(looped.rowPtr), [0, 2, 3, 5]);
     assert.deepEqual(Array.from(looped.colIndex), [0, 2, 1, 1, 2]);
     assert.deepEqual(Array.from(looped.values), [1, 2, 4, 4, 1]);

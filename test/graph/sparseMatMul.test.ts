@@ -58,8 +58,8 @@ for (const backend of ['wasm', 'cpu'] as TensorflowBackend[]) {
       tf.tidy(() => {
         const x = tf.tensor2d(randomDense(random, 10 * 4), [10, 4]);
         const denseA = denseTensor(a);
-        const sparseLoss = () => tf.sum(tf.square(sparseMatMul(a, sparseMatMul(a, tf.matMul(x, weight))))) as tf.Scalar;
-        const denseLoss = () => tf.sum(tf.square(tf.matMul(denseA, tf.matMul(denseA, tf.matMul(x, weight))))) as tf.Scalar;
+        const sparseLoss = () => tf.sum<tf.Scalar>(tf.square(sparseMatMul(a, sparseMatMul(a, tf.matMul(x, weight)))));
+        const denseLoss = () => tf.sum<tf.Scalar>(tf.square(tf.matMul(denseA, tf.matMul(denseA, tf.matMul(x, weight)))));
         const sparse = tf.variableGrads(sparseLoss, [weight]);
         const dense = tf.variableGrads(denseLoss, [weight]);
         const scale = Math.max(1, Math.abs(dense.value.dataSync()[0]));
@@ -73,9 +73,9 @@ for (const backend of ['wasm', 'cpu'] as TensorflowBackend[]) {
 
     it('rejects mismatched shapes with the sizes in the message', () => {
       const a = randomCsr(new SeededRandom(34), 4, 6, 2);
-      const h = tf.zeros([5, 2]) as tf.Tensor2D;
+      const h = tf.zeros<tf.Rank.R2>([5, 2]);
       assert.throws(() => sparseMatMul(a, h), /6 columns but the dense one has 5 rows/);
-      const h6 = tf.zeros([6, 2]) as tf.Tensor2D;
+      const h6 = tf.zeros<tf.Rank.R2>([6, 2]);
       assert.throws(() => sparseMatMul(a, h6, a), /aTransposed is 4 × 6, expected 6 × 4/);
       h.dispose();
       h6.dispose();

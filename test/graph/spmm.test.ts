@@ -16,7 +16,13 @@ function tolerance(reference: Float64Array): number {
 describe('spmm', () => {
   it('equals the dense product on a hand case', () => {
     // [[1, 0, 2], [0, 0, 0], [0, 3, 0]] · [[1, 2], [3, 4], [5, 6]] = [[11, 14], [0, 0], [9, 12]] (by hand).
-    const a = { rowCount: 3, colCount: 3, rowPtr: Int32Array.from([0, 2, 2, 3]), colIndex: Int32Array.from([0, 2, 1]), values: Float32Array.from([1, 2, 3]) };
+    const a = {
+      rowCount: 3,
+      colCount: 3,
+      rowPtr: Int32Array.from([0, 2, 2, 3]),
+      colIndex: Int32Array.from([0, 2, 1]),
+      values: Float32Array.from([1, 2, 3]),
+    };
     assert.deepEqual(Array.from(spmm(a, Float32Array.from([1, 2, 3, 4, 5, 6]), 2)), [11, 14, 0, 0, 9, 12]);
   });
 

@@ -145,6 +145,12 @@ describe('engine worker (real bundle)', function () {
       const final = replies[replies.length - 1];
       assert.equal(final.type, 'error');
       assert.equal(final.type === 'error' && final.error.kind, 'cancelled');
+      // The engine stopped inside loading: loading never reported completion, summarizing never began.
+      const progress = replies.filter((r) => r.type === 'progress');
+      assert.ok(
+        progress.every((p) => p.stage === 'load' && p.fraction < 1),
+        JSON.stringify(progress),
+      );
 
       const reply = new Promise<WorkerToHostMessage>((resolve) => worker.once('message', resolve));
       worker.postMessage({ type: 'summary', id: 2, params: { directory: large } });

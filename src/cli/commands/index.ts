@@ -6,5 +6,8 @@ export const COMMANDS: Record<string, () => Promise<CommandModule>> = {
   init: () => import('./init'),
   validate: () => import('./validate'),
   summary: () => import('./summary'),
+  apply: () => import('./apply'),
+  score: () => import('./score'),
+  evaluate: () => import('./evaluate'),
   help: () => import('./help'),
 };

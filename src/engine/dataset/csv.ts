@@ -85,7 +85,7 @@ export class CsvTokenizer {
   private recordBad = false;
   private quoteLine = 0;
   private quoteColumn = 0;
-  private readonly row: CsvRow = { fields: [], line: 1, fieldLines: [], fieldColumns: [] };
+  private row: CsvRow = { fields: [], line: 1, fieldLines: [], fieldColumns: [] };
   private expectedFields = -1;
 
   constructor(
@@ -288,9 +288,10 @@ export class CsvTokenizer {
       }
     }
     this.recordBad = false;
-    row.fields.length = 0;
-    row.fieldLines.length = 0;
-    row.fieldColumns.length = 0;
+    // Fresh arrays: cheaper in V8 than truncating with `length = 0` (a runtime call).
+    row.fields = [];
+    row.fieldLines = [];
+    row.fieldColumns = [];
   }
 
   addProblem(line: number, column: number, message: string): void {

@@ -46,11 +46,22 @@ export function parseLabelLog(text: string, file: string): { entries: LabelLogEn
       problems.push({ file, line: k + 1, column: 1, message: 'not a JSON object (each line of the log is one JSON object)' });
       return;
     }
+    if (isBatchMarker(value)) return;
     const why = labelLogEntryProblem(value);
     if (why) problems.push({ file, line: k + 1, column: 1, message: why });
     else entries.push(value as LabelLogEntry);
   });
   return { entries, problems };
+}
+
+/**
+ * Lines `{"batch": id, "phase": "begin" | "commit" | "abort", ...}` bracket the entries written by
+ * one apply (see src/engine/decisions/batchLog.ts); they are not label changes.
+ */
+export function isBatchMarker(value: unknown): boolean {
+  if (typeof value !== 'object' || value === null || Array.isArray(value)) return false;
+  const v = value as Record<string, unknown>;
+  return typeof v.batch === 'string' && typeof v.phase === 'string' && v.node === undefined;
 }
 
 function labelLogEntryProblem(value: unknown): string | null {

@@ -161,7 +161,7 @@ function fill(spec: FieldSpec, value: unknown): unknown {
     }
     return out;
   }
-  if (value !== undefined) return Array.isArray(value) ? [...value] : value;
+  if (value !== undefined) return Array.isArray(value) ? [...(value as unknown[])] : value;
   return Array.isArray(spec.default) ? [...spec.default] : spec.default;
 }
 

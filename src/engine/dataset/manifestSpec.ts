@@ -112,6 +112,6 @@ function schemaOf(spec: FieldSpec): Record<string, unknown> {
   }
   const { type, description, ...rest } = spec;
   const out: Record<string, unknown> = { type, description };
-  for (const [key, value] of Object.entries(rest)) out[key] = Array.isArray(value) ? [...value] : value;
+  for (const [key, value] of Object.entries(rest)) out[key] = Array.isArray(value) ? [...(value as unknown[])] : value;
   return out;
 }

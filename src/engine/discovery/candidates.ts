@@ -74,7 +74,7 @@ export interface Candidate {
   neighbourClasses: { className: string; count: number }[];
   /** Links from members to nodes of each class: curated label, else predicted class when that node is not rejected. */
   edgesToClasses: { className: string; edges: number }[];
-  /** Mean silhouette of the members in the final grouping (−1..1; higher = better separated). */
+  /** Mean silhouette of the members in the grouping after merging (−1..1; higher = better separated; 0 when there is only one group). */
   cohesion: number;
   /** Links among members / (size · (size − 1)); 1 when every member links to every other. */
   internalEdgeDensity: number;
@@ -134,7 +134,8 @@ function validate(input: CandidateInput): number {
     }
   }
   const [kMin, kMax] = input.kRange ?? [2, 10];
-  if (!Number.isInteger(kMin) || !Number.isInteger(kMax) || kMin < 2 || kMax < kMin) problems.push(`kRange must be integers with 2 ≤ min ≤ max, got [${kMin}, ${kMax}]`);
+  if (!Number.isInteger(kMin) || !Number.isInteger(kMax) || kMin < 2 || kMax < kMin)
+    problems.push(`kRange must be integers with 2 ≤ min ≤ max, got [${kMin}, ${kMax}]`);
   if (problems.length > 0) throw new Error(`discoverCandidates: ${problems.join('; ')}`);
   return nodeCount;
 }
@@ -216,7 +217,9 @@ function describe(members: Int32Array, ctx: Describer, topTerms: WeightedTerm[])
     size,
     sliceCounts: input.sliceKeys.map((slice, s) => ({ slice, count: sliceTotals[s] })),
     topTerms,
-    nearestMembers: memberDistances.slice(0, nearestMemberCount).map(({ node, distance }) => ({ node, distance, text: input.nodeText[node] })),
+    nearestMembers: memberDistances
+      .slice(0, nearestMemberCount)
+      .map(({ node, distance }) => ({ node, distance, text: input.nodeText[node] })),
     neighbourClasses: countsByName(neighbourLabels, input.classNames),
     edgesToClasses: countsByName(linksToClasses, input.classNames).map(({ className, count }) => ({ className, edges: count })),
     cohesion: size > 0 ? cohesion / size : 0,
@@ -228,7 +231,6 @@ function describe(members: Int32Array, ctx: Describer, topTerms: WeightedTerm[])
   };
 }
 
-/** Initial grouping: k by silhouette, then graph merging. Returns group of each rejected item. */
 interface Grouping {
   assignment: Int32Array;
   groupCount: number;
@@ -237,10 +239,12 @@ interface Grouping {
   allPointDistances: Float32Array | null;
 }
 
+/** Initial grouping of the rejected items: k by silhouette, then graph merging. */
 function groupRejected(input: CandidateInput, points: Float32Array): Grouping {
   const n = input.rejectedNodes.length;
   const kRange = input.kRange ?? [2, 10];
-  if (n < 2 * kRange[0]) return { assignment: new Int32Array(n), groupCount: n > 0 ? 1 : 0, chosenK: n > 0 ? 1 : 0, silhouetteByK: [], allPointDistances: null };
+  if (n < 2 * kRange[0])
+    return { assignment: new Int32Array(n), groupCount: n > 0 ? 1 : 0, chosenK: n > 0 ? 1 : 0, silhouetteByK: [], allPointDistances: null };
   const selection = chooseGroupCount(points, input.embeddingDim, kRange, input.seed, {
     sampleThreshold: input.sampleThreshold,
     silhouetteSampleSize: input.silhouetteSampleSize,
@@ -249,7 +253,13 @@ function groupRejected(input: CandidateInput, points: Float32Array): Grouping {
     mergeDensityRatio: input.mergeDensityRatio,
     minMergeLinks: input.minMergeLinks,
   });
-  return { assignment: merged.assignment, groupCount: merged.groupCount, chosenK: selection.k, silhouetteByK: selection.silhouetteByK, allPointDistances: selection.allPointDistances };
+  return {
+    assignment: merged.assignment,
+    groupCount: merged.groupCount,
+    chosenK: selection.k,
+    silhouetteByK: selection.silhouetteByK,
+    allPointDistances: selection.allPointDistances,
+  };
 }
 
 export function discoverCandidates(input: CandidateInput): DiscoveryResult {

@@ -36,7 +36,13 @@ function bestOfRestarts(points: Float32Array, dim: number, k: number, seed: numb
   return best as KMeansResult;
 }
 
-export function chooseGroupCount(points: Float32Array, dim: number, kRange: [number, number], seed: number, options: ChooseKOptions = {}): KSelection {
+export function chooseGroupCount(
+  points: Float32Array,
+  dim: number,
+  kRange: [number, number],
+  seed: number,
+  options: ChooseKOptions = {},
+): KSelection {
   const n = points.length / dim;
   const sampleThreshold = options.sampleThreshold ?? 5000;
   const silhouetteSampleSize = options.silhouetteSampleSize ?? 2000;

@@ -31,7 +31,11 @@ export function tokenize(text: string): string[] {
  * order is stable). groupTexts[c] holds the documents of group c; stopWords defaults to
  * englishStopWords (pass an empty set to keep every token).
  */
-export function classTfidfTopTerms(groupTexts: string[][], topN: number, stopWords: ReadonlySet<string> = englishStopWords): WeightedTerm[][] {
+export function classTfidfTopTerms(
+  groupTexts: string[][],
+  topN: number,
+  stopWords: ReadonlySet<string> = englishStopWords,
+): WeightedTerm[][] {
   const groupCounts: Map<string, number>[] = [];
   const groupTotals: number[] = [];
   const overall = new Map<string, number>();

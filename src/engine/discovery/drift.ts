@@ -20,13 +20,21 @@ export interface ClassGeometry {
  * Centroids (given, or the mean embedding of each class's labelled nodes) and spreads. The
  * spread of a class needs at least two labelled nodes.
  */
-export function classGeometry(embeddings: Float32Array, dim: number, labels: Int32Array, classCount: number, givenCentroids?: Float32Array): ClassGeometry {
+export function classGeometry(
+  embeddings: Float32Array,
+  dim: number,
+  labels: Int32Array,
+  classCount: number,
+  givenCentroids?: Float32Array,
+): ClassGeometry {
   const counts = new Int32Array(classCount);
   for (let i = 0; i < labels.length; i++) if (labels[i] >= 0 && labels[i] < classCount) counts[labels[i]]++;
   let centroids: Float32Array;
   if (givenCentroids) {
     if (givenCentroids.length !== classCount * dim) {
-      throw new Error(`discovery: knownClassCentroids has ${givenCentroids.length} values, expected classCount (${classCount}) × embeddingDim (${dim}) = ${classCount * dim}`);
+      throw new Error(
+        `discovery: knownClassCentroids has ${givenCentroids.length} values, expected classCount (${classCount}) × embeddingDim (${dim}) = ${classCount * dim}`,
+      );
     }
     centroids = givenCentroids;
   } else {
@@ -53,7 +61,11 @@ export function classGeometry(embeddings: Float32Array, dim: number, labels: Int
 }
 
 /** Nearest class centroid to a point (classes with unknown centroid skipped); null when none. */
-export function nearestClass(geometry: ClassGeometry, centre: ArrayLike<number>, dim: number): { classIndex: number; distance: number } | null {
+export function nearestClass(
+  geometry: ClassGeometry,
+  centre: ArrayLike<number>,
+  dim: number,
+): { classIndex: number; distance: number } | null {
   const classCount = geometry.centroids.length / dim;
   let best: { classIndex: number; distance: number } | null = null;
   for (let c = 0; c < classCount; c++) {

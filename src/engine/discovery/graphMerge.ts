@@ -48,7 +48,13 @@ export function linkCountsBetweenGroups(adjacency: CsrMatrix, items: Int32Array,
   return links;
 }
 
-export function mergeLinkedGroups(adjacency: CsrMatrix, items: Int32Array, assignment: Int32Array, groupCount: number, options: GraphMergeOptions = {}): GraphMergeResult {
+export function mergeLinkedGroups(
+  adjacency: CsrMatrix,
+  items: Int32Array,
+  assignment: Int32Array,
+  groupCount: number,
+  options: GraphMergeOptions = {},
+): GraphMergeResult {
   const ratioThreshold = options.mergeDensityRatio ?? 0.5;
   const minLinks = options.minMergeLinks ?? 4;
   const links = linkCountsBetweenGroups(adjacency, items, assignment, groupCount);

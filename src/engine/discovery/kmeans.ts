@@ -55,7 +55,15 @@ export function kmeansPlusPlusInit(points: Float32Array, dim: number, k: number,
 }
 
 /** Index of the nearest centre (first one on ties) and its squared distance. */
-function assignToNearest(points: Float32Array, n: number, dim: number, centres: Float64Array, k: number, assignment: Int32Array, distances: Float64Array): void {
+function assignToNearest(
+  points: Float32Array,
+  n: number,
+  dim: number,
+  centres: Float64Array,
+  k: number,
+  assignment: Int32Array,
+  distances: Float64Array,
+): void {
   for (let i = 0; i < n; i++) {
     let best = -1;
     let bestDistance = Infinity;
@@ -82,7 +90,8 @@ export function kmeans(points: Float32Array, dim: number, k: number, options: KM
   const n = pointCount(points, dim, k);
   const maxIterations = options.maxIterations ?? 100;
   const tolerance = options.tolerance ?? 1e-6;
-  if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new Error(`k-means: maxIterations must be a positive integer, got ${maxIterations}`);
+  if (!Number.isInteger(maxIterations) || maxIterations < 1)
+    throw new Error(`k-means: maxIterations must be a positive integer, got ${maxIterations}`);
   let start = options.initialCentres;
   if (start) {
     if (start.length !== k * dim) throw new Error(`k-means: initialCentres has ${start.length} values, expected k × dim = ${k * dim}`);

@@ -17,7 +17,13 @@ function checkShape(points: Float32Array, dim: number, assignment: Int32Array, k
 }
 
 /** Turns per-point sums of distances to each group into silhouette values. */
-function valuesFromGroupSums(sums: Float64Array, assignment: Int32Array, k: number, sizes: ArrayLike<number>, ownSizeCorrection: number): Float32Array {
+function valuesFromGroupSums(
+  sums: Float64Array,
+  assignment: Int32Array,
+  k: number,
+  sizes: ArrayLike<number>,
+  ownSizeCorrection: number,
+): Float32Array {
   const n = assignment.length;
   const out = new Float32Array(n);
   let nonEmptyGroups = 0;
@@ -89,7 +95,14 @@ export function meanSilhouette(points: Float32Array, dim: number, assignment: In
 }
 
 /** Mean silhouette of a seeded sample of the points, computed within the sample (O(sampleSize² · dim)). */
-export function sampledMeanSilhouette(points: Float32Array, dim: number, assignment: Int32Array, k: number, sampleSize: number, seed: number): number {
+export function sampledMeanSilhouette(
+  points: Float32Array,
+  dim: number,
+  assignment: Int32Array,
+  k: number,
+  sampleSize: number,
+  seed: number,
+): number {
   const n = checkShape(points, dim, assignment, k);
   const sample = sampleIndices(n, sampleSize, new SeededRandom(seed));
   const distances = pairwiseDistances(points, dim, sample);
@@ -134,7 +147,13 @@ export function silhouetteFromDistances(distances: Float32Array, m: number, assi
  * mean distances to the reference points of each group instead of to all of its members
  * (unbiased estimates of the exact means when the reference is a uniform sample).
  */
-export function silhouetteValuesAgainstReference(points: Float32Array, dim: number, assignment: Int32Array, k: number, reference: Int32Array): Float32Array {
+export function silhouetteValuesAgainstReference(
+  points: Float32Array,
+  dim: number,
+  assignment: Int32Array,
+  k: number,
+  reference: Int32Array,
+): Float32Array {
   const n = checkShape(points, dim, assignment, k);
   const referenceSizes = new Int32Array(k);
   for (let r = 0; r < reference.length; r++) if (assignment[reference[r]] >= 0) referenceSizes[assignment[reference[r]]]++;

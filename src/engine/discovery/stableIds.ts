@@ -19,7 +19,7 @@ export const sameCandidateJaccard = 0.5;
 
 /** FNV-1a over the member indices, two differently seeded 32-bit lanes → 12 hex digits. */
 export function memberHash(members: ArrayLike<number>): string {
-  const sorted = Int32Array.from(members as ArrayLike<number>).sort();
+  const sorted = Int32Array.from(members).sort();
   let h1 = 0x811c9dc5;
   let h2 = 0x050c5d1f;
   for (let i = 0; i < sorted.length; i++) {

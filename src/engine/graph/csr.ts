@@ -64,7 +64,13 @@ export function buildAdjacency(nodeCount: number, edges: EdgeList, symmetric: bo
 /** Sorts each row by column and sums duplicate columns; returns a compact matrix (inputs untouched). */
 export function sortAndMergeRows(rowCount: number, colCount: number, rowPtr: Int32Array, cols: Int32Array, vals: Float32Array): CsrMatrix {
   if (rowsStrictlySorted(rowCount, rowPtr, cols)) {
-    return { rowCount, colCount, rowPtr: rowPtr.slice(), colIndex: cols.slice(0, rowPtr[rowCount]), values: vals.slice(0, rowPtr[rowCount]) };
+    return {
+      rowCount,
+      colCount,
+      rowPtr: rowPtr.slice(),
+      colIndex: cols.slice(0, rowPtr[rowCount]),
+      values: vals.slice(0, rowPtr[rowCount]),
+    };
   }
   return sortByColumnAndMerge(rowCount, colCount, rowPtr, cols, vals);
 }

@@ -114,7 +114,9 @@ export function checkProductShapes(
 ): void {
   if (!Number.isInteger(columns) || columns < 0) throw new Error(`${operation}: columns must be a non-negative integer, got ${columns}`);
   if (dense.length < denseRows * columns) {
-    throw new Error(`${operation}: dense input has ${dense.length} values, needs ${denseRows} rows × ${columns} columns = ${denseRows * columns}`);
+    throw new Error(
+      `${operation}: dense input has ${dense.length} values, needs ${denseRows} rows × ${columns} columns = ${denseRows * columns}`,
+    );
   }
   if (out && out.length < outRows * columns) {
     throw new Error(`${operation}: output has ${out.length} values, needs ${outRows} rows × ${columns} columns = ${outRows * columns}`);

@@ -8,7 +8,7 @@
 //   Z1 = X W1 + b1, H = relu(Z1), Hd = H ⊙ mask, Z = Hd W2 + b2
 //   dZ = (σ(Z) ⊙ (1 + (w - 1) y) - w y) · lossScale          (class-weighted BCE, see classWeightedLoss.ts)
 //   dW2 = Hdᵀ dZ = (dZᵀ Hd)ᵀ, db2 = Σ_rows dZ
-//   dZ1 = (dZ W2ᵀ) ⊙ mask ⊙ [H > 0], dW1 = Xᵀ dZ1, db1 = Σ_rows dZ1
+//   dZ1 = (dZ W2ᵀ) ⊙ mask ⊙ [H > 0], [dW1; db1] = [Xᵀ; 1ᵀ] dZ1
 //
 // The functions below are shipped as source text to worker threads (parallelDenseStep.ts), so
 // they must stay self-contained: they use only their arguments (tfjs comes in as `tf`), no
@@ -23,7 +23,10 @@ export interface DenseShard {
   hiddenUnits: number;
   classCount: number;
   inputs: tfModule.Tensor2D;
-  inputsTransposed: tfModule.Tensor2D;
+  /** Xᵀ with a row of ones appended: one product then gives [dW1; db1]. */
+  inputsTransposedWithOnes: tfModule.Tensor2D;
+  /** rows × 1 ones: Σ_rows dZ as a product, faster than tfjs's axis-0 sum on wasm. */
+  onesColumn: tfModule.Tensor2D;
   oneMinusTargets: tfModule.Tensor2D;
   logWeight: tfModule.Tensor2D;
   scaledLogWeight: tfModule.Tensor2D;
@@ -66,13 +69,15 @@ export function createDenseShard(
     scaledPositiveTarget[k] = w * targets[k] * lossScale;
   }
   const inputTensor = tf.tensor2d(inputs, [rowCount, inputDim]);
+  const ones = new Float32Array(rowCount).fill(1);
   return {
     rowCount,
     inputDim,
     hiddenUnits,
     classCount,
     inputs: inputTensor,
-    inputsTransposed: tf.transpose(inputTensor),
+    inputsTransposedWithOnes: tf.tidy(() => tf.concat([tf.transpose(inputTensor), tf.tensor2d(ones, [1, rowCount])], 0)),
+    onesColumn: tf.tensor2d(ones, [rowCount, 1]),
     oneMinusTargets: tf.tensor2d(oneMinusTargets, [rowCount, classCount]),
     logWeight: tf.tensor2d(logWeight, [rowCount, classCount]),
     scaledLogWeight: tf.tensor2d(scaledLogWeight, [rowCount, classCount]),
@@ -111,22 +116,20 @@ export function runDenseShard(tf: Tfjs, shard: DenseShard, parameters: Float32Ar
     const loss = tf.mul(tf.sum(lossTerms), shard.lossScale);
 
     const logitsGradient = tf.sub(tf.mul(tf.sigmoid(logits), shard.scaledLogWeight), shard.scaledPositiveTarget);
-    const outputKernelGradientT = tf.matMul(tf.transpose(logitsGradient), dropped); // classes × hidden
-    const outputBiasGradient = tf.sum(logitsGradient, 0);
+    const logitsGradientT = tf.transpose(logitsGradient);
+    const outputKernelGradientT = tf.matMul(logitsGradientT, dropped); // classes × hidden
+    const outputBiasGradient = tf.matMul(logitsGradientT, shard.onesColumn); // classes × 1
     const droppedGradient = tf.matMul(logitsGradient, tf.tensor2d(outputKernelTransposed, [classCount, hiddenUnits]));
     // [Hd > 0] = [H > 0]·[mask > 0]; multiplying by the mask again restores its 1/(1 - rate) factor.
     const hiddenGradient = maskTensor ? tf.mul(droppedGradient, tf.mul(tf.step(dropped), maskTensor)) : tf.mul(droppedGradient, tf.step(hidden));
-    const hiddenKernelGradient = tf.matMul(shard.inputsTransposed, hiddenGradient);
-    const hiddenBiasGradient = tf.sum(hiddenGradient, 0);
-    return [loss, hiddenKernelGradient, hiddenBiasGradient, outputKernelGradientT, outputBiasGradient];
+    // (inputDim + 1) × hidden: the hidden kernel's gradient, then the hidden bias's as the last row.
+    const hiddenGradients = tf.matMul(shard.inputsTransposedWithOnes, hiddenGradient);
+    return [loss, hiddenGradients, outputKernelGradientT, outputBiasGradient];
   });
-  const [loss, hiddenKernelGradient, hiddenBiasGradient, outputKernelGradientT, outputBiasGradient] = results.map(
-    (t) => t.dataSync() as Float32Array,
-  );
+  const [loss, hiddenGradients, outputKernelGradientT, outputBiasGradient] = results.map((t) => t.dataSync() as Float32Array);
   tf.dispose(results);
   out[0] = loss[0];
-  out.set(hiddenKernelGradient, 1);
-  out.set(hiddenBiasGradient, 1 + hiddenBiasAt);
+  out.set(hiddenGradients, 1);
   for (let c = 0; c < classCount; c++) {
     for (let j = 0; j < hiddenUnits; j++) out[1 + outputKernelAt + j * classCount + c] = outputKernelGradientT[c * hiddenUnits + j];
   }
@@ -134,5 +137,5 @@ export function runDenseShard(tf: Tfjs, shard: DenseShard, parameters: Float32Ar
 }
 
 export function disposeDenseShard(tf: Tfjs, shard: DenseShard): void {
-  tf.dispose([shard.inputs, shard.inputsTransposed, shard.oneMinusTargets, shard.logWeight, shard.scaledLogWeight, shard.scaledPositiveTarget, shard.lossScale]);
+  tf.dispose([shard.inputs, shard.inputsTransposedWithOnes, shard.onesColumn, shard.oneMinusTargets, shard.logWeight, shard.scaledLogWeight, shard.scaledPositiveTarget, shard.lossScale]);
 }

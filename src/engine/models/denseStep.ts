@@ -1,6 +1,7 @@
 // The in-process training step of the mlp/sign network (one shard holding every training
 // row, see denseShard.ts for the maths), the flat parameter layout, and prediction.
 import * as tf from '@tensorflow/tfjs';
+import { throwIfCancelled, type CancelSignal } from '../util/progress';
 import { createDenseShard, disposeDenseShard, gradientLength, runDenseShard, type DenseShard } from './denseShard';
 
 export interface DenseParameters {
@@ -17,7 +18,7 @@ export interface LossAndGradients {
 }
 
 /** Copies the parameters into one vector in the order of denseShard's layout (without the loss slot). */
-export function flattenParameters(p: DenseParameters, out = new Float32Array(p.hiddenKernel.length + p.hiddenBias.length + p.outputKernel.length + p.outputBias.length)): Float32Array {
+export function flattenParameters(p: DenseParameters, out: Float32Array = new Float32Array(p.hiddenKernel.length + p.hiddenBias.length + p.outputKernel.length + p.outputBias.length)): Float32Array {
   let at = 0;
   for (const part of [p.hiddenKernel, p.hiddenBias, p.outputKernel, p.outputBias]) {
     out.set(part, at);
@@ -83,6 +84,7 @@ export function predictDense(
   inputDim: number,
   parameters: DenseParameters,
   hiddenUnits: number,
+  cancel?: CancelSignal,
 ): { logits: Float32Array; embeddings: Float32Array } {
   const classCount = parameters.outputBias.length;
   const logits = new Float32Array(rowCount * classCount);
@@ -96,6 +98,7 @@ export function predictDense(
   ] as const;
   try {
     for (let start = 0; start < rowCount; start += chunkRows) {
+      throwIfCancelled(cancel);
       const end = Math.min(rowCount, start + chunkRows);
       const [hidden, out] = tf.tidy(() => {
         const x = tf.tensor2d(features.subarray(start * inputDim, end * inputDim), [end - start, inputDim]);

@@ -5,8 +5,9 @@ import { throwIfCancelled, yieldToEventLoop, type CancelSignal, type ProgressSin
 import type { SeededRandom } from '../util/random';
 import { AdamOptimizer } from './adam';
 import { oneHotTargets, positiveWeights } from './classWeightedLoss';
-import { DenseTrainingStep, predictDense, type DenseParameters } from './denseStep';
+import { DenseTrainingStep, flattenParameters, predictDense, splitGradients, type DenseParameters } from './denseStep';
 import { dropoutMask } from './initialisation';
+import { ParallelDenseTraining, sharedFloats } from './parallelDenseStep';
 import type { ModelSettings, ModelWeights, TrainingSet } from './types';
 import { tensorByName } from './weights';
 
@@ -26,9 +27,16 @@ export function denseParameters(weights: ModelWeights): DenseParameters {
   };
 }
 
+/**
+ * Training rows × input columns from which the step is split over two worker threads. Below
+ * it, worker start-up (about half a second) outweighs the gain. The split depends only on the
+ * problem size, never on the machine, so a seed gives the same result everywhere.
+ */
+export const parallelTrainingThreshold = 2_000_000;
+export const parallelShardCount = 2;
+
 /** Copies the labelled rows out of the full matrix. */
-export function gatherRows(matrix: Float32Array, width: number, rows: Int32Array): Float32Array {
-  const out = new Float32Array(rows.length * width);
+export function gatherRows(matrix: Float32Array, width: number, rows: Int32Array, out: Float32Array = new Float32Array(rows.length * width)): Float32Array {
   for (let r = 0; r < rows.length; r++) out.set(matrix.subarray(rows[r] * width, (rows[r] + 1) * width), r * width);
   return out;
 }
@@ -58,35 +66,55 @@ export async function trainDenseNetwork(
     { learningRate: settings.learningRate, weightDecay: settings.weightDecay },
   );
   const lossHistory: number[] = [];
-  if (rowCount > 0) {
-    const step = new DenseTrainingStep(
-      gatherRows(features, inputDim, train.nodeIndex),
-      rowCount,
-      inputDim,
-      oneHotTargets(train.classIndex, classCount),
-      positiveWeights(train.classIndex, classCount),
-      settings.hiddenUnits,
-      1 / (rowCount * classCount),
-    );
-    const mask = settings.dropout > 0 ? new Float32Array(rowCount * settings.hiddenUnits) : null;
-    try {
-      for (let epoch = 0; epoch < settings.epochs; epoch++) {
-        throwIfCancelled(cancel);
-        if (mask) dropoutMask(mask.length, settings.dropout, random, mask);
-        const { loss, gradients } = step.run(parameters, mask);
-        optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
-        lossHistory.push(loss);
-        progress.report('train', (epoch + 1) / settings.epochs);
-        await yieldToEventLoop();
+  if (rowCount > 0 && settings.epochs > 0) {
+    const targets = oneHotTargets(train.classIndex, classCount);
+    const posWeight = positiveWeights(train.classIndex, classCount);
+    const parallel = rowCount * inputDim >= parallelTrainingThreshold;
+    const report = (epoch: number, loss: number) => {
+      lossHistory.push(loss);
+      progress.report('train', (epoch + 1) / settings.epochs);
+    };
+    if (parallel) {
+      const sharedInputs = gatherRows(features, inputDim, train.nodeIndex, sharedFloats(rowCount * inputDim));
+      const withDropout = settings.dropout > 0;
+      const training = await ParallelDenseTraining.start(sharedInputs, rowCount, inputDim, targets, posWeight, settings.hiddenUnits, parallelShardCount, withDropout);
+      try {
+        if (withDropout) dropoutMask(training.masks[0].length, settings.dropout, random, training.masks[0]);
+        for (let epoch = 0; epoch < settings.epochs; epoch++) {
+          throwIfCancelled(cancel);
+          flattenParameters(parameters, training.parameters);
+          const current = withDropout ? epoch % 2 : null;
+          const running = training.run(current);
+          // Draw the next epoch's mask while the workers compute this one.
+          if (withDropout && epoch + 1 < settings.epochs) dropoutMask(training.masks[1 - epoch % 2].length, settings.dropout, random, training.masks[1 - epoch % 2]);
+          const { loss, gradients } = splitGradients(await running, inputDim, settings.hiddenUnits, classCount);
+          optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
+          report(epoch, loss);
+        }
+      } finally {
+        await training.dispose();
       }
-    } finally {
-      step.dispose();
+    } else {
+      const step = new DenseTrainingStep(gatherRows(features, inputDim, train.nodeIndex), rowCount, inputDim, targets, posWeight, settings.hiddenUnits, 1 / (rowCount * classCount));
+      const mask = settings.dropout > 0 ? new Float32Array(rowCount * settings.hiddenUnits) : null;
+      try {
+        for (let epoch = 0; epoch < settings.epochs; epoch++) {
+          throwIfCancelled(cancel);
+          if (mask) dropoutMask(mask.length, settings.dropout, random, mask);
+          const { loss, gradients } = step.run(parameters, mask);
+          optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
+          report(epoch, loss);
+          await yieldToEventLoop();
+        }
+      } finally {
+        step.dispose();
+      }
     }
   }
   const trained = performance.now();
   timings.train = (timings.train ?? 0) + (trained - started) / 1000;
   throwIfCancelled(cancel);
-  const { logits, embeddings } = predictDense(features, nodeCount, inputDim, parameters, settings.hiddenUnits);
+  const { logits, embeddings } = predictDense(features, nodeCount, inputDim, parameters, settings.hiddenUnits, cancel);
   timings.predict = (timings.predict ?? 0) + (performance.now() - trained) / 1000;
   return { lossHistory, logits, embeddings };
 }

@@ -15,7 +15,7 @@ export function glorotUniform(fanIn: number, fanOut: number, random: SeededRando
  * expected activation is unchanged and prediction needs no rescaling. Each 32-bit draw gives
  * two 16-bit decisions (rate resolution 1/65536), which halves the cost on large layers.
  */
-export function dropoutMask(count: number, rate: number, random: SeededRandom, out = new Float32Array(count)): Float32Array {
+export function dropoutMask(count: number, rate: number, random: SeededRandom, out: Float32Array = new Float32Array(count)): Float32Array {
   if (rate <= 0) return out.fill(1, 0, count);
   const keepValue = 1 / (1 - rate);
   const dropBelow = Math.round(rate * 65536);

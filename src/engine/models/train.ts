@@ -5,11 +5,11 @@ import { silentProgress, type CancelSignal, type ProgressSink } from '../util/pr
 import { SeededRandom } from '../util/random';
 import { trainDenseNetwork } from './denseTrainer';
 import { trainGraphNetwork } from './graphTrainer';
-import { precomputePropagation } from './propagation';
+import { propagateForTraining } from './propagation';
 import type { GraphInputs, ModelOutput, ModelSettings, ModelWeights, PropagatedFeatures, TrainingSet } from './types';
 import { initialWeights } from './weights';
 
-export { precomputePropagation } from './propagation';
+export { precomputePropagation, precomputePropagationWith } from './propagation';
 
 export interface TrainOptions {
   /** Weights of the previous slice's model; used when kind and dimensions fit. */
@@ -33,7 +33,7 @@ export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, s
   let inputDim = inputs.featureDim;
   if (kind === 'sign') {
     const started = performance.now();
-    const propagated = usablePrecomputed(options.precomputed, inputs, settings.propagationSteps) ?? precomputePropagation(inputs, settings.propagationSteps);
+    const propagated = usablePrecomputed(options.precomputed, inputs, settings.propagationSteps) ?? (await propagateForTraining(inputs, settings.propagationSteps, options.cancel));
     timings.propagate = (performance.now() - started) / 1000;
     progress.report('propagate', 1);
     modelInput = propagated.data;

@@ -1,15 +1,16 @@
 // One model fit for one slice: train on the history window's labels over the graph as it stood
 // at the end of the slice, then turn outputs into probabilities, DOC thresholds and novelty.
 import type { Dataset } from '../dataset/types';
-import { trainAndPredict } from '../models/train';
+import { precomputePropagation, trainAndPredict } from '../models/train';
+import { outOfFoldProbabilities } from './crossFit';
 import type { ModelWeights, PropagatedFeatures } from '../models/types';
-import { docNovelty, docThresholds } from '../scoring/docThresholds';
+import { docMargin, docThresholds, docThresholdsRobust } from '../scoring/docThresholds';
 import { energyNovelty, maxSoftmaxNovelty } from '../scoring/noveltyScores';
 import { sigmoid } from '../scoring/sigmoid';
 import { smoothNovelty } from '../scoring/smoothing';
 import type { CancelSignal, ProgressSink } from '../util/progress';
 import { prefixGraph, type PrefixGraph } from './prefixGraph';
-import type { RunSettings } from './runSettings';
+import { modelSettingsOf, type RunSettings } from './runSettings';
 import { modelClassSet, selectTrainingNodes, type TrainingSelection } from './trainingWindow';
 
 export interface PreviousModel {
@@ -79,30 +80,57 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
   }
   const graphSeconds = (performance.now() - started) / 1000;
 
+  const modelSettings = modelSettingsOf(settings);
+  let precomputed = options.precomputed;
+  let propagateSeconds = 0;
+  if (settings.model === 'sign' && !precomputed) {
+    options.progress?.report('propagate', 0);
+    const propagateStarted = performance.now();
+    precomputed = precomputePropagation(prefix.inputs, modelSettings.propagationSteps);
+    propagateSeconds = (performance.now() - propagateStarted) / 1000;
+  }
   const output = await trainAndPredict(
     prefix.inputs,
     { nodeIndex: trainLocal, classIndex: trainClass, classCount: modelClasses.length },
-    {
-      kind: settings.model,
-      hiddenUnits: settings.hiddenUnits,
-      epochs: settings.epochs,
-      learningRate: settings.learningRate,
-      weightDecay: 5e-4,
-      dropout: 0.5,
-      seed: settings.seed,
-      propagationSteps: 2,
-    },
-    { warmStart: warm?.weights, precomputed: options.precomputed, progress: options.progress, cancel: options.cancel },
+    modelSettings,
+    { warmStart: warm?.weights, precomputed, progress: options.progress, cancel: options.cancel },
   );
 
-  const scoreStarted = performance.now();
   const classCount = modelClasses.length;
+  let thresholdSource = output.logits;
+  let thresholdRows = trainLocal;
+  let crossFitSeconds = 0;
+  if (settings.thresholdFolds >= 2) {
+    const crossFitStarted = performance.now();
+    const outOfFold = await outOfFoldProbabilities({
+      inputs: prefix.inputs,
+      trainLocal,
+      trainClass,
+      classCount,
+      settings: modelSettings,
+      folds: settings.thresholdFolds,
+      precomputed,
+      progress: options.progress,
+      cancel: options.cancel,
+    });
+    crossFitSeconds = (performance.now() - crossFitStarted) / 1000;
+    thresholdSource = outOfFold;
+    thresholdRows = Int32Array.from(trainLocal.keys());
+  }
+  const scoreStarted = performance.now();
   const probabilities = sigmoid(output.logits);
-  const thresholds = docThresholds(probabilities, classCount, trainLocal, trainClass, settings.alpha);
+  const fitThresholds = settings.thresholdScale === 'mad' ? docThresholdsRobust : docThresholds;
+  const thresholds = fitThresholds(
+    thresholdSource === output.logits ? probabilities : thresholdSource,
+    classCount,
+    thresholdRows,
+    trainClass,
+    settings.alpha,
+  );
   let noveltyRaw: Float32Array;
   if (settings.noveltyMethod === 'msp') noveltyRaw = maxSoftmaxNovelty(output.logits, classCount);
   else if (settings.noveltyMethod === 'energy') noveltyRaw = energyNovelty(output.logits, classCount, settings.temperature);
-  else noveltyRaw = docNovelty(probabilities, classCount, thresholds);
+  else noveltyRaw = docMargin(probabilities, classCount, thresholds);
   const scoreSeconds = (performance.now() - scoreStarted) / 1000;
   options.progress?.report('smooth', 0);
   const smoothStarted = performance.now();
@@ -123,7 +151,7 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
     noveltyRaw,
     noveltySmoothed,
     weights: output.weights,
-    timings: { graph: graphSeconds, ...output.timings, score: scoreSeconds, smooth: smoothSeconds },
+    timings: { graph: graphSeconds, ...(propagateSeconds ? { propagate: propagateSeconds } : {}), ...output.timings, crossFit: crossFitSeconds, score: scoreSeconds, smooth: smoothSeconds },
   };
 }
 

@@ -5,22 +5,13 @@ import type { PropagatedFeatures } from '../models/types';
 import { sigmoid } from '../scoring/sigmoid';
 import type { PrefixFit } from './modelOnPrefix';
 import type { PrefixGraph } from './prefixGraph';
-import type { RunSettings } from './runSettings';
+import { modelSettingsOf, type RunSettings } from './runSettings';
 
 export async function predictOnPrefix(prefix: PrefixGraph, fit: PrefixFit, settings: RunSettings, precomputed?: PropagatedFeatures): Promise<Float32Array> {
   const output = await trainAndPredict(
     prefix.inputs,
     { nodeIndex: new Int32Array(0), classIndex: new Int32Array(0), classCount: fit.modelClasses.length },
-    {
-      kind: settings.model,
-      hiddenUnits: settings.hiddenUnits,
-      epochs: 0,
-      learningRate: settings.learningRate,
-      weightDecay: 5e-4,
-      dropout: 0.5,
-      seed: settings.seed,
-      propagationSteps: 2,
-    },
+    { ...modelSettingsOf(settings), epochs: 0 },
     { warmStart: fit.weights, precomputed },
   );
   return sigmoid(output.logits);

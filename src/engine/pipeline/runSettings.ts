@@ -1,7 +1,7 @@
 // The settings of one scoring run. Stored with its results so every label change can name the
 // exact settings that suggested it (settingsHash).
 import { createHash } from 'node:crypto';
-import type { ModelKind } from '../models/types';
+import type { ModelKind, ModelSettings } from '../models/types';
 
 export type NoveltyMethod = 'doc' | 'msp' | 'energy';
 
@@ -11,6 +11,13 @@ export interface RunSettings {
   historyWindow: number | 'all';
   /** DOC threshold width: threshold = max(0.5, 1 − alpha·σ). */
   alpha: number;
+  /**
+   * Folds of cross-fitting for the DOC thresholds: the Gaussian is fitted on out-of-fold outputs
+   * of the training nodes (k extra trainings). 0 fits on the training outputs themselves.
+   */
+  thresholdFolds: number;
+  /** Scale of the Gaussian fit: 'std' (population standard deviation) or 'mad' (robust: 1.4826 · median absolute deviation). */
+  thresholdScale: 'std' | 'mad';
   /** Neighbour smoothing weight (0 turns smoothing off) and number of rounds. */
   smoothingWeight: number;
   smoothingRounds: number;
@@ -32,6 +39,8 @@ export const defaultRunSettings: RunSettings = {
   model: 'sign',
   historyWindow: 4,
   alpha: 3,
+  thresholdFolds: 3,
+  thresholdScale: 'mad',
   smoothingWeight: 0.5,
   smoothingRounds: 2,
   noveltyMethod: 'doc',
@@ -53,4 +62,17 @@ export function settingsHash(settings: RunSettings): string {
 
 export function describeWindow(window: number | 'all'): string {
   return window === 'all' ? 'all earlier slices' : `${window} earlier slice${window === 1 ? '' : 's'}`;
+}
+
+export function modelSettingsOf(settings: RunSettings): ModelSettings {
+  return {
+    kind: settings.model,
+    hiddenUnits: settings.hiddenUnits,
+    epochs: settings.epochs,
+    learningRate: settings.learningRate,
+    weightDecay: 5e-4,
+    dropout: 0.5,
+    seed: settings.seed,
+    propagationSteps: 2,
+  };
 }

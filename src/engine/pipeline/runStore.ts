@@ -9,6 +9,7 @@ import { writeFileAtomic } from '../io/atomicWrite';
 import { encodeNpy } from '../io/npy';
 import { settingsHash, type RunSettings } from './runSettings';
 import { rejectedCount, topOutputs, type SliceScores } from './sliceScores';
+import type { CandidatesFile } from './candidatesFile';
 
 export const RUNS_FOLDER = 'runs';
 
@@ -74,7 +75,13 @@ export function runRecordOf(dataset: Dataset, scores: SliceScores, settings: Run
 }
 
 /** Writes a run folder; returns its path. */
-export async function saveRun(dataset: Dataset, scores: SliceScores, settings: RunSettings, runId = newRunId(settings, scores.sliceKey)): Promise<{ folder: string; record: RunRecord }> {
+export async function saveRun(
+  dataset: Dataset,
+  scores: SliceScores,
+  settings: RunSettings,
+  extra: { runId?: string; candidates?: CandidatesFile } = {},
+): Promise<{ folder: string; record: RunRecord }> {
+  const runId = extra.runId ?? newRunId(settings, scores.sliceKey);
   const root = runsFolder(dataset.folder);
   await fs.mkdir(root, { recursive: true });
   const ignore = path.join(root, '.gitignore');
@@ -84,6 +91,10 @@ export async function saveRun(dataset: Dataset, scores: SliceScores, settings: R
   const record = runRecordOf(dataset, scores, settings, runId);
   await writeFileAtomic(path.join(folder, 'scores.csv'), formatScoresCsv(dataset, scores));
   await writeFileAtomic(path.join(folder, 'embeddings.npy'), encodeNpy(scores.embeddings, [scores.nodes.length, scores.hiddenUnits]));
+  if (extra.candidates) {
+    record.files.candidates = 'candidates.json';
+    await writeFileAtomic(path.join(folder, 'candidates.json'), JSON.stringify({ ...extra.candidates, runId }, null, 2) + '\n');
+  }
   // run.json last: a run folder without it is incomplete and is ignored by readers.
   await writeFileAtomic(path.join(folder, 'run.json'), JSON.stringify(record, null, 2) + '\n');
   return { folder, record };

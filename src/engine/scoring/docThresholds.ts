@@ -54,6 +54,49 @@ export function docThresholds(
   return thresholds;
 }
 
+/** Scale factor that makes the median absolute deviation a consistent estimate of a Gaussian σ (1/Φ⁻¹(3/4)). */
+export const MAD_TO_SIGMA = 1.4826;
+
+/**
+ * The same Gaussian fit with a robust scale: σ = 1.4826 · median(|1 − p|) over the mirrored
+ * sample (mirroring leaves each absolute deviation from 1 unchanged). Used on out-of-fold
+ * outputs, where a few members that any model would miss (a report written in another class's
+ * words) would otherwise inflate σ until every threshold sits at the 0.5 floor.
+ */
+export function docThresholdsRobust(
+  probabilities: Float32Array,
+  classCount: number,
+  trainNodes: Int32Array,
+  trainClasses: Int32Array,
+  alpha: number = DEFAULT_DOC_ALPHA,
+): Float32Array {
+  const nodeCount = rowCountOf(probabilities, classCount, 'docThresholdsRobust');
+  if (trainNodes.length !== trainClasses.length) {
+    throw new RangeError(`docThresholdsRobust: ${trainNodes.length} training nodes but ${trainClasses.length} training classes`);
+  }
+  if (!Number.isFinite(alpha) || alpha < 0) throw new RangeError(`docThresholdsRobust: alpha must be a finite number ≥ 0, got ${alpha}`);
+  const gaps: number[][] = Array.from({ length: classCount }, () => []);
+  for (let k = 0; k < trainNodes.length; k++) {
+    const node = trainNodes[k];
+    const cls = trainClasses[k];
+    if (node < 0 || node >= nodeCount || cls < 0 || cls >= classCount)
+      throw new RangeError(`docThresholdsRobust: entry ${k} (node ${node}, class ${cls}) is out of range`);
+    gaps[cls].push(Math.abs(1 - probabilities[node * classCount + cls]));
+  }
+  const thresholds = new Float32Array(classCount);
+  for (let c = 0; c < classCount; c++) {
+    if (gaps[c].length === 0) {
+      thresholds[c] = DOC_THRESHOLD_FLOOR;
+      continue;
+    }
+    const sorted = gaps[c].sort((a, b) => a - b);
+    const mid = sorted.length >> 1;
+    const median = sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+    thresholds[c] = Math.max(DOC_THRESHOLD_FLOOR, 1 - alpha * MAD_TO_SIGMA * median);
+  }
+  return thresholds;
+}
+
 function checkThresholds(thresholds: Float32Array, classCount: number, name: string): void {
   if (thresholds.length !== classCount) throw new RangeError(`${name}: ${thresholds.length} thresholds for ${classCount} classes`);
   for (let c = 0; c < classCount; c++) {
@@ -66,9 +109,20 @@ function checkThresholds(thresholds: Float32Array, classCount: number, name: str
  * p_c < t_c, i.e. when DOC rejects the node; larger means further below every threshold.
  */
 export function docNovelty(probabilities: Float32Array, classCount: number, thresholds: Float32Array): Float32Array {
-  const nodeCount = rowCountOf(probabilities, classCount, 'docNovelty');
-  checkThresholds(thresholds, classCount, 'docNovelty');
-  const novelty = new Float32Array(nodeCount);
+  const margin = docMargin(probabilities, classCount, thresholds);
+  for (let i = 0; i < margin.length; i++) if (margin[i] < 0) margin[i] = 0;
+  return margin;
+}
+
+/**
+ * The same score without the clamp: 1 − max_c p_c / t_c, negative for accepted nodes. Smoothing
+ * this margin (rather than the clamped novelty) keeps the rule "rejected ⇔ score > 0" meaningful
+ * after smoothing: a clamped score would turn every node with one rejected neighbour positive.
+ */
+export function docMargin(probabilities: Float32Array, classCount: number, thresholds: Float32Array): Float32Array {
+  const nodeCount = rowCountOf(probabilities, classCount, 'docMargin');
+  checkThresholds(thresholds, classCount, 'docMargin');
+  const margin = new Float32Array(nodeCount);
   for (let i = 0; i < nodeCount; i++) {
     const base = i * classCount;
     let ratio = -Infinity;
@@ -77,9 +131,9 @@ export function docNovelty(probabilities: Float32Array, classCount: number, thre
       const r = probabilities[base + c] / thresholds[c];
       if (r > ratio) ratio = r;
     }
-    novelty[i] = 1 - Math.min(1, ratio);
+    margin[i] = 1 - ratio;
   }
-  return novelty;
+  return margin;
 }
 
 /** DOC's rejection rule: 1 where every class probability is below its threshold. */

@@ -35,7 +35,9 @@ async function setUp(preferred: TensorflowBackend): Promise<TensorflowBackend> {
       }
       console.warn('tfjs: the wasm backend did not start; using the slower cpu backend instead.');
     } catch (error) {
-      console.warn(`tfjs: the wasm backend could not be set up (${error instanceof Error ? error.message : String(error)}); using the slower cpu backend instead.`);
+      console.warn(
+        `tfjs: the wasm backend could not be set up (${error instanceof Error ? error.message : String(error)}); using the slower cpu backend instead.`,
+      );
     }
   }
   if (!(await tf.setBackend('cpu'))) throw new Error('tfjs: neither the wasm nor the cpu backend could be started');

@@ -30,7 +30,7 @@ export function sparseMatMul(a: CsrMatrix, h: tf.Tensor2D, aTransposed?: CsrMatr
     };
     return { value, gradFunc };
   });
-  return product(h) as tf.Tensor2D;
+  return product(h);
 }
 
 function float32Data(tensor: tf.Tensor): Float32Array {

@@ -55,7 +55,9 @@ export function installExtension(vsixPath: string, folders: CodeServerFolders): 
     ? readdirSync(folders.extensionsDir, { withFileTypes: true }).filter((entry) => entry.isDirectory() && !entry.name.startsWith('.'))
     : [];
   if (installed.length !== 1) {
-    throw new Error(`expected one extension folder in ${folders.extensionsDir} after installing, found: ${installed.map((e) => e.name).join(', ') || 'none'}\n${output}`);
+    throw new Error(
+      `expected one extension folder in ${folders.extensionsDir} after installing, found: ${installed.map((e) => e.name).join(', ') || 'none'}\n${output}`,
+    );
   }
   return path.join(folders.extensionsDir, installed[0].name);
 }
@@ -90,8 +92,9 @@ async function waitUntilHealthy(url: string, child: ChildProcess, logFile: strin
   throw new Error(`code-server did not answer on ${url} within ${startTimeoutMs / 1000} s; see ${logFile}`);
 }
 
+/** Signals the whole group, even after its leader exited: code-server's own child may outlive it. */
 function killGroup(child: ChildProcess, signal: NodeJS.Signals): void {
-  if (child.pid === undefined || child.exitCode !== null || child.signalCode !== null) return;
+  if (child.pid === undefined) return;
   try {
     process.kill(-child.pid, signal);
   } catch {
@@ -136,7 +139,10 @@ export async function startCodeServer(folder: string, folders: CodeServerFolders
   const stop = (): Promise<void> => {
     stopped ??= (async () => {
       process.removeListener('exit', killOnExit);
-      if (child.exitCode !== null || child.signalCode !== null) return;
+      if (child.exitCode !== null || child.signalCode !== null) {
+        killGroup(child, 'SIGKILL');
+        return;
+      }
       const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
       killGroup(child, 'SIGTERM');
       const graceful = await Promise.race([exited.then(() => true), new Promise<boolean>((r) => setTimeout(() => r(false), 5_000))]);

@@ -39,11 +39,14 @@ export function probePackagedRuntime(extensionFolder: string): PackagedRuntime {
   });
   if (result.error) throw new Error(`the tfjs probe could not run: ${result.error.message}`);
   if (result.status !== 0) {
-    throw new Error(`tfjs does not load from the installed extension ${extensionFolder} (a file missing from the .vsix?):\n${result.stderr.trim()}`);
+    throw new Error(
+      `tfjs does not load from the installed extension ${extensionFolder} (a file missing from the .vsix?):\n${result.stderr.trim()}`,
+    );
   }
   const lines = result.stdout.trim().split('\n');
   const report = JSON.parse(lines[lines.length - 1]) as { started: boolean; backend: string; product: number[]; tfjsPath: string };
-  if (!report.started || report.backend !== 'wasm') throw new Error(`the wasm backend did not start from the .vsix (backend: ${report.backend})`);
+  if (!report.started || report.backend !== 'wasm')
+    throw new Error(`the wasm backend did not start from the .vsix (backend: ${report.backend})`);
   if (!report.tfjsPath.startsWith(extensionFolder)) throw new Error(`tfjs resolved outside the extension: ${report.tfjsPath}`);
   return report;
 }

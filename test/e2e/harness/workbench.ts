@@ -31,7 +31,9 @@ const quickInputBox = (page: Page): Locator => quickInput(page).locator('.quick-
 const quickInputRows = (page: Page): Locator => quickInput(page).locator('.monaco-list-row');
 
 async function rowTexts(rows: Locator): Promise<string[]> {
-  const texts = await rows.evaluateAll((elements) => elements.map((element) => (element as HTMLElement).innerText.replace(/\s+/g, ' ').trim()));
+  const texts = await rows.evaluateAll((elements) =>
+    elements.map((element) => (element as HTMLElement).innerText.replace(/\s+/g, ' ').trim()),
+  );
   return texts.filter((text) => text !== '');
 }
 
@@ -62,7 +64,9 @@ export async function runCommand(page: Page, title: string): Promise<void> {
   } catch {
     const offered = await rowTexts(quickInputRows(page));
     await page.keyboard.press('Escape');
-    throw new Error(`the command palette has no "${title}"; for that query it offered: ${offered.length > 0 ? offered.join(' | ') : '(nothing)'}`);
+    throw new Error(
+      `the command palette has no "${title}"; for that query it offered: ${offered.length > 0 ? offered.join(' | ') : '(nothing)'}`,
+    );
   }
   await row.click();
 }
@@ -97,7 +101,9 @@ export async function waitForNotification(page: Page, expected: RegExp, timeoutM
     seen = new Set([...seen, ...texts]);
     await page.waitForTimeout(250);
   }
-  throw new Error(`no notification matching ${expected} within ${timeoutMs / 1000} s; notifications seen: ${[...seen].join(' | ') || '(none)'}`);
+  throw new Error(
+    `no notification matching ${expected} within ${timeoutMs / 1000} s; notifications seen: ${[...seen].join(' | ') || '(none)'}`,
+  );
 }
 
 export async function clearNotifications(page: Page): Promise<void> {

@@ -47,6 +47,16 @@ function recordEnd(text: string, start: number): number {
   return text.length;
 }
 
+/** Data records (header excluded) in a CSV file, counted with quoted line breaks honoured. */
+export function countCsvRecords(csvPath: string): number {
+  const text = readFileSync(csvPath, 'utf8');
+  let records = 0;
+  for (let start = recordEnd(text, 0); start < text.length; start = recordEnd(text, start)) {
+    if (text[start] !== '\n' && text[start] !== '\r') records++;
+  }
+  return records;
+}
+
 function countLineBreaks(text: string): number {
   let count = 0;
   for (const char of text) if (char === '\n') count++;
@@ -67,8 +77,12 @@ export function copyWithDuplicateNodeId(datasetFolder: string, copyFolder: strin
   const nodesPath = path.join(copyFolder, nodesFile);
   const text = readFileSync(nodesPath, 'utf8');
   const idColumn = manifestIdColumn(copyFolder);
-  const headerFirstField = text.slice(0, text.search(/[,\r\n]/)).replace(/^\uFEFF/, '').replace(/^"|"$/g, '');
-  if (headerFirstField !== idColumn) throw new Error(`${nodesPath}: expected the id column "${idColumn}" first, found "${headerFirstField}"`);
+  const headerFirstField = text
+    .slice(0, text.search(/[,\r\n]/))
+    .replace(/^\uFEFF/, '')
+    .replace(/^"|"$/g, '');
+  if (headerFirstField !== idColumn)
+    throw new Error(`${nodesPath}: expected the id column "${idColumn}" first, found "${headerFirstField}"`);
   const firstRecordStart = recordEnd(text, 0);
   const firstRecordEnd = recordEnd(text, firstRecordStart);
   const firstRecord = text.slice(firstRecordStart, firstRecordEnd);

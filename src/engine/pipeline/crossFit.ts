@@ -1,0 +1,69 @@
+// Out-of-fold outputs of the training nodes: each node's output comes from a model that did not
+// train on it. DOC thresholds fitted on these reflect how the model scores nodes it has not seen;
+// fitted on the training outputs themselves they sit near 1 once a model memorises its few
+// labelled nodes, and then most unseen nodes of known classes are rejected.
+import { trainAndPredict } from '../models/train';
+import type { GraphInputs, ModelSettings, PropagatedFeatures } from '../models/types';
+import { sigmoid } from '../scoring/sigmoid';
+import type { CancelSignal, ProgressSink } from '../util/progress';
+import { throwIfCancelled } from '../util/progress';
+import { SeededRandom } from '../util/random';
+
+/** Fold of each training node: stratified by class, seeded. */
+export function stratifiedFolds(trainClass: Int32Array, folds: number, seed: number): Int32Array {
+  const random = new SeededRandom(seed ^ 0xf01d5);
+  const byClass = new Map<number, number[]>();
+  trainClass.forEach((c, i) => {
+    const list = byClass.get(c) ?? [];
+    list.push(i);
+    byClass.set(c, list);
+  });
+  const fold = new Int32Array(trainClass.length);
+  let offset = 0;
+  for (const c of Array.from(byClass.keys()).sort((a, b) => a - b)) {
+    const members = random.shuffle(byClass.get(c) as number[]);
+    // Continue the round-robin across classes so that small classes do not all land in fold 0.
+    members.forEach((i, rank) => (fold[i] = (rank + offset) % folds));
+    offset += members.length;
+  }
+  return fold;
+}
+
+export interface CrossFitRequest {
+  inputs: GraphInputs;
+  trainLocal: Int32Array;
+  trainClass: Int32Array;
+  classCount: number;
+  settings: ModelSettings;
+  folds: number;
+  precomputed?: PropagatedFeatures;
+  progress?: ProgressSink;
+  cancel?: CancelSignal;
+}
+
+/** trainCount × classCount sigmoid outputs, row i = training node i scored by the model of the other folds. */
+export async function outOfFoldProbabilities(request: CrossFitRequest): Promise<Float32Array> {
+  const { trainLocal, trainClass, classCount, folds } = request;
+  const fold = stratifiedFolds(trainClass, folds, request.settings.seed);
+  const result = new Float32Array(trainLocal.length * classCount);
+  for (let f = 0; f < folds; f++) {
+    throwIfCancelled(request.cancel);
+    request.progress?.report('cross-fit', f / folds);
+    const keep: number[] = [];
+    const held: number[] = [];
+    fold.forEach((k, i) => (k === f ? held : keep).push(i));
+    if (held.length === 0 || keep.length === 0) continue;
+    const output = await trainAndPredict(
+      request.inputs,
+      { nodeIndex: Int32Array.from(keep, (i) => trainLocal[i]), classIndex: Int32Array.from(keep, (i) => trainClass[i]), classCount },
+      { ...request.settings, seed: request.settings.seed + 101 * (f + 1) },
+      { precomputed: request.precomputed, cancel: request.cancel },
+    );
+    for (const i of held) {
+      const node = trainLocal[i];
+      result.set(sigmoid(output.logits.subarray(node * classCount, (node + 1) * classCount)), i * classCount);
+    }
+  }
+  request.progress?.report('cross-fit', 1);
+  return result;
+}

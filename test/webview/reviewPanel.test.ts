@@ -1,0 +1,319 @@
+// The review panel in Chromium against a stubbed host (see panelHarness.ts): every decision by
+// click and by key, the messages the webview posts, the virtualised table, the no-WebGL path,
+// restoring view state, threshold previews, and screenshots in a light and a dark theme.
+import * as assert from 'node:assert/strict';
+import { mkdirSync, statSync } from 'node:fs';
+import * as path from 'node:path';
+import type { Browser } from 'playwright-core';
+import type { ThresholdSetting } from '../../src/protocol/webview';
+import { createThresholdPreviewer } from '../../src/review/thresholdPreview';
+import { buildScenario, largeScenario, scenarioCandidates, type ReviewScenario } from '../review/reviewScenario';
+import { launchBrowser, openPanel, screenshotFolder, type Panel, type PanelOptions } from './panelHarness';
+import { darkTheme, lightTheme } from './themes';
+
+describe('webview/review panel (Chromium)', function () {
+  this.timeout(120_000);
+  let browser: Browser;
+  let scenario: ReviewScenario;
+  let panel: Panel | null = null;
+
+  before(async () => {
+    browser = await launchBrowser();
+    scenario = buildScenario();
+  });
+  after(async () => {
+    await browser?.close();
+  });
+  afterEach(async () => {
+    await panel?.close();
+    panel = null;
+  });
+
+  const open = async (overrides: Partial<PanelOptions> = {}) => {
+    panel = await openPanel(browser, { context: scenario.context, candidates: scenarioCandidates(scenario), theme: lightTheme, ...overrides });
+    return panel;
+  };
+  const openIds = (p: Panel) => p.session.queue().filter((q) => q.status === 'open').map((q) => q.candidate.id);
+  const decisionAfter = async (p: Panel, mark: number) => (await p.nextPosted(mark, (m) => m.type === 'decide', 'a decision')).decision as Record<string, unknown>;
+  const settled = async (p: Panel, count: number) => {
+    await p.page.locator('#pending-list li[data-decision]').nth(count - 1).waitFor();
+  };
+
+  it('loads under the panel’s Content-Security-Policy and shows the queue, summary, graph and table', async () => {
+    const p = await open();
+    assert.deepEqual(p.posted[0], { type: 'ready' });
+    const queue = await p.page.locator('#queue-list .queue-item').evaluateAll((items) => items.map((i) => i.getAttribute('data-candidate')));
+    assert.deepEqual(queue, openIds(p));
+    assert.equal(await p.page.locator('#candidate-title').textContent(), openIds(p)[0]);
+    assert.equal(await p.page.locator('#candidate-size').textContent(), '18 members');
+    assert.equal(await p.page.locator('#emergence-chart rect').count(), 4, 'one bar per slice');
+    assert.equal(await p.page.locator('#nearest-members li').count(), 5);
+    assert.equal(await p.page.locator('#graph-stage canvas').count() > 0, true, 'sigma drew into the graph area');
+    assert.equal(await p.page.locator('#graph-unavailable').count(), 0);
+    assert.equal(await p.page.locator('.member-rows .member-row').count(), 18);
+    assert.deepEqual(await p.violations(), []);
+    assert.deepEqual(p.pageErrors.filter((e) => !e.includes('GL Driver')), []);
+  });
+
+  it('records each decision made by clicking, with the fields the host needs', async () => {
+    const p = await open();
+    const [first, second, third] = openIds(p);
+    const page = p.page;
+
+    let mark = p.posted.length;
+    await page.locator('#decide-name').click();
+    await page.locator('#new-class-name input').fill('rotor icing');
+    await page.locator('#new-class-description input').fill('ice on blades and sensors');
+    await page.locator('#confirm-name').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'name-new-class', candidateId: first, className: 'rotor icing', description: 'ice on blades and sensors' });
+    await settled(p, 1);
+    assert.equal(await page.locator('#candidate-title').textContent(), second, 'the panel moves to the next candidate');
+
+    mark = p.posted.length;
+    await page.locator('#decide-skip').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'skip', candidateId: second });
+    await settled(p, 2);
+
+    mark = p.posted.length;
+    await page.locator('#decide-merge-with').click();
+    await page.locator('#confirm-mergeWith').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'merge-candidates', candidateIds: [third, second] });
+    await settled(p, 3);
+    const merged = `${third}+${second}`;
+    assert.equal(await page.locator('#candidate-title').textContent(), merged);
+
+    mark = p.posted.length;
+    await page.locator('#decide-split').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'split-candidate', candidateId: merged, parts: 2 });
+    await settled(p, 4);
+    assert.equal(await page.locator('#candidate-title').textContent(), `${merged}.1`);
+
+    // Move: select two rows (the second with shift for a range of 2), choose a class, confirm.
+    mark = p.posted.length;
+    const rows = page.locator('.member-rows .member-row');
+    const picked = [await rows.nth(0).getAttribute('data-node'), await rows.nth(1).getAttribute('data-node')];
+    await rows.nth(0).locator('input[type=checkbox]').click();
+    await rows.nth(1).locator('input[type=checkbox]').click({ modifiers: ['Shift'] });
+    assert.match((await page.locator('#member-count').textContent()) ?? '', /2 selected/);
+    await page.locator('#decide-move').click();
+    await page.locator('#confirm-move').click();
+    const move = await decisionAfter(p, mark);
+    assert.equal(move.kind, 'move-members');
+    assert.deepEqual([...(move.members as string[])].sort(), [...picked].sort());
+    assert.equal(move.className, 'blade-crack', 'the first class is chosen by default');
+    await settled(p, 5);
+
+    mark = p.posted.length;
+    await page.locator('#decide-merge-into').click();
+    await page.locator('#confirm-mergeInto').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'merge-into-class', candidateId: `${merged}.1`, className: 'blade-crack' });
+    await settled(p, 6);
+
+    mark = p.posted.length;
+    const current = await page.locator('#candidate-title').textContent();
+    await page.locator('#decide-dismiss').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'dismiss', candidateId: current });
+    await settled(p, 7);
+
+    mark = p.posted.length;
+    await page.locator('#undo').click();
+    await p.nextPosted(mark, (m) => m.type === 'undo', 'undo');
+    await page.locator('#pending-list li[data-decision]').nth(6).waitFor({ state: 'detached' });
+    assert.equal(p.session.pendingDecisions().length, 6);
+    mark = p.posted.length;
+    await page.locator('#redo').click();
+    await p.nextPosted(mark, (m) => m.type === 'redo', 'redo');
+    await settled(p, 7);
+    assert.deepEqual(
+      p.session.pendingDecisions().map((d) => d.kind),
+      ['name-new-class', 'skip', 'merge-candidates', 'split-candidate', 'move-members', 'merge-into-class', 'dismiss'],
+    );
+    assert.deepEqual(await p.violations(), []);
+  });
+
+  it('records each decision made with the keyboard, and lists the shortcuts', async () => {
+    const p = await open();
+    const page = p.page;
+    const [first, second, third] = openIds(p);
+    assert.match((await page.locator('#help-strip').textContent()) ?? '', /J next candidate/);
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+
+    let mark = p.posted.length;
+    await page.keyboard.press('j');
+    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: second });
+    await page.locator('#candidate-title', { hasText: second }).waitFor();
+    mark = p.posted.length;
+    await page.keyboard.press('k');
+    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: first });
+    await page.locator('#candidate-title', { hasText: first }).waitFor();
+
+    mark = p.posted.length;
+    await page.keyboard.press('n');
+    await page.locator('#new-class-name input').waitFor();
+    await page.waitForFunction(() => document.querySelector('#new-class-name')?.matches(':focus-within'));
+    await page.keyboard.type('frost');
+    await page.keyboard.press('Enter');
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'name-new-class', candidateId: first, className: 'frost', description: '' });
+    await settled(p, 1);
+
+    mark = p.posted.length;
+    await page.keyboard.press('c');
+    await page.locator('#merge-candidate').waitFor();
+    await page.keyboard.press('Escape');
+    await page.locator('#decision-form').waitFor({ state: 'hidden' });
+    await page.keyboard.press('c');
+    await page.locator('#confirm-mergeWith').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'merge-candidates', candidateIds: [second, third] });
+    await settled(p, 2);
+    const merged = `${second}+${third}`;
+
+    mark = p.posted.length;
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press('s');
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'split-candidate', candidateId: merged, parts: 2 });
+    await settled(p, 3);
+
+    mark = p.posted.length;
+    await page.locator('#select-shown').click();
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press('v');
+    await page.locator('#move-class').waitFor();
+    await page.locator('#confirm-move').click();
+    const move = await decisionAfter(p, mark);
+    assert.equal(move.kind, 'move-members');
+    assert.equal((move.members as string[]).length, p.session.candidate(`${merged}.1`)!.candidate.members.length);
+    await settled(p, 4);
+
+    mark = p.posted.length;
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    const current = await page.locator('#candidate-title').textContent();
+    await page.keyboard.press('m');
+    await page.locator('#merge-class').waitFor();
+    await page.keyboard.press('Enter');
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'merge-into-class', candidateId: current, className: 'blade-crack' });
+    await settled(p, 5);
+
+    // Nothing is open any more: dismiss and skip have nothing to act on; undo brings one back.
+    mark = p.posted.length;
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press('u');
+    await p.nextPosted(mark, (m) => m.type === 'undo', 'undo');
+    await page.locator('#pending-list li[data-decision]').nth(4).waitFor({ state: 'detached' });
+    mark = p.posted.length;
+    await page.keyboard.press('l');
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'skip', candidateId: current });
+    await settled(p, 5);
+    mark = p.posted.length;
+    await page.keyboard.press('d');
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'dismiss', candidateId: current });
+    await settled(p, 6);
+    mark = p.posted.length;
+    await page.keyboard.press('u');
+    await p.nextPosted(mark, (m) => m.type === 'undo', 'undo');
+    await page.locator('#redo:not([disabled])').waitFor();
+    mark = p.posted.length;
+    await page.keyboard.press('Shift+U');
+    await p.nextPosted(mark, (m) => m.type === 'redo', 'redo');
+    await settled(p, 6);
+
+    await page.keyboard.press('?');
+    await page.locator('#help-overlay').waitFor({ state: 'visible' });
+    assert.match((await page.locator('#help-overlay').textContent()) ?? '', /merge with a candidate/);
+    await page.keyboard.press('Escape');
+    await page.locator('#help-overlay').waitFor({ state: 'hidden' });
+    await page.keyboard.press('/');
+    await page.waitForFunction(() => document.querySelector('#member-search')?.matches(':focus-within'));
+  });
+
+  it('keeps the DOM small for a candidate of 5,000 members, and scrolls, searches and sorts it', async () => {
+    const { scenario: large, candidates } = largeScenario(5000);
+    const p = await open({ context: large.context, candidates });
+    const page = p.page;
+    assert.equal(await page.locator('#candidate-size').textContent(), '5000 members');
+    assert.match((await page.locator('#member-count').textContent()) ?? '', /^5000 of 5000 members/);
+    const domRows = await page.locator('.member-rows .member-row').count();
+    assert.ok(domRows > 5 && domRows < 80, `${domRows} rows in the DOM for 5,000 members`);
+    await page.locator('#member-viewport').evaluate((viewport) => {
+      viewport.scrollTop = viewport.scrollHeight;
+    });
+    await page.waitForFunction(() => Number(document.querySelector('.member-rows .member-row:last-child')?.getAttribute('aria-rowindex')) === 5000);
+    assert.ok((await page.locator('.member-rows .member-row').count()) < 80);
+    await page.locator('#member-search input').fill('n0070');
+    await page.waitForFunction(() => /^10 of 5000/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    await page.locator('.sort-button[data-column=id]').click();
+    const ids = await page.locator('.member-rows .member-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-node')));
+    assert.deepEqual(ids, [...ids].sort());
+    assert.equal(ids.length, 10);
+  });
+
+  it('says so when WebGL is missing, and the table still works', async () => {
+    const p = await open({ withoutWebgl: true });
+    const page = p.page;
+    await page.locator('#graph-unavailable').waitFor();
+    assert.match((await page.locator('#graph-unavailable').textContent()) ?? '', /WebGL is not available/);
+    assert.equal(await page.locator('#graph-stage canvas').count(), 0);
+    assert.equal(await page.locator('.member-rows .member-row').count(), 18);
+    await page.locator('#member-search input').fill('n0011');
+    await page.waitForFunction(() => /^\d+ of 18 members/.test(document.querySelector('#member-count')?.textContent ?? '') && !/^18 of/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    const mark = p.posted.length;
+    await page.locator('#decide-dismiss').click();
+    assert.equal((await decisionAfter(p, mark)).kind, 'dismiss');
+  });
+
+  it('asks the host for threshold previews and shows the answer; the UI computes no scores', async () => {
+    const { context } = scenario;
+    const previewer = createThresholdPreviewer({
+      novelty: { kind: 'fixed', noveltyRaw: context.novelty },
+      noveltyMethod: 'msp',
+      adjacency: context.adjacency,
+      smoothingRounds: 2,
+      scoredNodes: Int32Array.from(context.nodeIds.keys()),
+      candidates: scenarioCandidates(scenario).map((c) => c.members),
+    });
+    const setting: ThresholdSetting = { mode: 'quantile', alpha: 3, quantile: 0.1, lambda: 0.5 };
+    const p = await open({ previewThreshold: previewer, baseline: previewer(setting) });
+    const page = p.page;
+    assert.match((await page.locator('#threshold-result').textContent()) ?? '', /^This run: 15 of 148 nodes/);
+    const mark = p.posted.length;
+    await page.locator('#threshold-quantile').fill('0.25');
+    const request = await p.nextPosted(mark, (m) => m.type === 'previewThreshold', 'previewThreshold');
+    assert.deepEqual(request.setting, { ...setting, quantile: 0.25 });
+    const expected = previewer({ ...setting, quantile: 0.25 });
+    assert.equal(expected.rejected, 37, 'round(0.25 × 148)');
+    await page.locator('#threshold-result', { hasText: `Would reject ${expected.rejected} of 148` }).waitFor();
+  });
+
+  it('returns to the candidate, search and rejection setting it had before being hidden', async () => {
+    const second = scenarioCandidates(scenario)[1].id;
+    const p = await open({ savedState: { candidateId: second, search: 'feathers', sortColumn: 'id', sortDescending: false } });
+    assert.deepEqual(await p.nextPosted(0, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: second });
+    await p.page.locator('#candidate-title', { hasText: second }).waitFor();
+    assert.equal(await p.page.locator('#member-search').evaluate((f) => (f as HTMLElement & { value: string }).value), 'feathers');
+    assert.equal(await p.page.locator('.sort-button[data-column=id]').getAttribute('aria-sort'), 'ascending');
+    const state = (await p.page.evaluate('window.__state()')) as { candidateId?: string };
+    assert.equal(state.candidateId, second);
+  });
+
+  for (const [name, theme] of [
+    ['light', lightTheme],
+    ['dark', darkTheme],
+  ] as const) {
+    it(`renders in the ${name} theme from the --vscode-* variables (screenshot saved)`, async () => {
+      const p = await open({ theme, themeKind: name, baseline: { setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 }, rejected: 38, scored: 148, candidatesKept: 3, ungroupedRejected: 0 } });
+      const page = p.page;
+      const background = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+      const hex = theme['--vscode-editor-background'];
+      const rgb = `rgb(${parseInt(hex.slice(1, 3), 16)}, ${parseInt(hex.slice(3, 5), 16)}, ${parseInt(hex.slice(5, 7), 16)})`;
+      assert.equal(background, rgb);
+      await page.locator('.member-rows .member-row').nth(2).locator('input').click();
+      await page.locator('#decide-name').click();
+      await page.locator('#new-class-name input').fill('rotor icing');
+      await page.waitForTimeout(300);
+      mkdirSync(screenshotFolder, { recursive: true });
+      const file = path.join(screenshotFolder, `review-panel-${name}.png`);
+      await page.screenshot({ path: file });
+      assert.ok(statSync(file).size > 20_000, 'a screenshot of the whole panel');
+      assert.deepEqual(await p.violations(), []);
+    });
+  }
+});

@@ -1,0 +1,38 @@
+// Keyboard shortcuts of the panel: one table drives both the key handling and the help shown.
+
+export type Action = 'next' | 'previous' | 'name' | 'mergeInto' | 'mergeWith' | 'split' | 'move' | 'dismiss' | 'skip' | 'undo' | 'redo' | 'fit' | 'search' | 'help' | 'close';
+
+export interface Shortcut {
+  action: Action;
+  /** KeyboardEvent.key values that trigger it. */
+  keys: string[];
+  label: string;
+  description: string;
+}
+
+export const shortcuts: Shortcut[] = [
+  { action: 'next', keys: ['j'], label: 'J', description: 'next candidate' },
+  { action: 'previous', keys: ['k'], label: 'K', description: 'previous candidate' },
+  { action: 'name', keys: ['n'], label: 'N', description: 'name as new class' },
+  { action: 'mergeInto', keys: ['m'], label: 'M', description: 'merge into a class' },
+  { action: 'mergeWith', keys: ['c'], label: 'C', description: 'merge with a candidate' },
+  { action: 'split', keys: ['s'], label: 'S', description: 'split in two' },
+  { action: 'move', keys: ['v'], label: 'V', description: 'move selected members' },
+  { action: 'dismiss', keys: ['d'], label: 'D', description: 'dismiss as noise' },
+  { action: 'skip', keys: ['l'], label: 'L', description: 'skip (later)' },
+  { action: 'undo', keys: ['u'], label: 'U', description: 'undo' },
+  { action: 'redo', keys: ['U'], label: 'Shift+U', description: 'redo' },
+  { action: 'fit', keys: ['f'], label: 'F', description: 'zoom graph to fit' },
+  { action: 'search', keys: ['/'], label: '/', description: 'search members' },
+  { action: 'help', keys: ['?'], label: '?', description: 'show or hide this help' },
+  { action: 'close', keys: ['Escape'], label: 'Esc', description: 'close form or help' },
+];
+
+export function actionOfKey(event: KeyboardEvent): Action | null {
+  if (event.ctrlKey || event.metaKey || event.altKey) return null;
+  return shortcuts.find((s) => s.keys.includes(event.key))?.action ?? null;
+}
+
+export function shortcutLabel(action: Action): string {
+  return shortcuts.find((s) => s.action === action)?.label ?? '';
+}
