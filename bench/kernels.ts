@@ -13,13 +13,13 @@ import { initTensorflow } from '../src/engine/tf/backend';
 import { sparseMatMul } from '../src/engine/tf/sparseMatMul';
 import { SeededRandom } from '../src/engine/util/random';
 
-interface Shape {
+export interface KernelBenchmarkShape {
   nodes: number;
   edges: number;
   columns: number;
 }
 
-const SHAPES: Shape[] = [
+export const KERNEL_BENCHMARK_SHAPES: KernelBenchmarkShape[] = [
   { nodes: 20_000, edges: 200_000, columns: 64 },
   { nodes: 100_000, edges: 1_000_000, columns: 128 },
 ];
@@ -28,7 +28,9 @@ const RUNS = 5;
 type KernelName = 'normalize' | 'spmm' | 'spmmTransposed' | 'forwardBackward' | 'propagate';
 
 // PyTorch 1.13 on this kind of machine, 2 threads (FIELD-NOTES): the CSR product at 20k and the
-// propagate stage (coalesce + normalise + two products) of the pipeline at 100k.
+// propagate stage (coalesce + normalise + two products) of the pipeline at 100k. The naive JS
+// loop's 125 ms beside the 47 ms suggests about 200,000 stored entries there, half of Â's here
+// (each edge stored twice, plus self-loops): the torch column timed on this shape is the fairer one.
 const FIELD_NOTES_MS: Record<string, number> = { 'spmm 20000': 47, 'propagate 100000': 1800 };
 
 // Same shapes in PyTorch: a uniform random graph, the normalisation of
@@ -68,7 +70,7 @@ out = {
 print(json.dumps(out))
 `;
 
-function randomEdges(shape: Shape, seed: number): EdgeList {
+function randomEdges(shape: KernelBenchmarkShape, seed: number): EdgeList {
   const random = new SeededRandom(seed);
   const source = new Int32Array(shape.edges);
   const target = new Int32Array(shape.edges);
@@ -118,7 +120,7 @@ function findPython(): string | undefined {
   return undefined;
 }
 
-function torchTimings(python: string, shape: Shape): Partial<Record<KernelName, Timing>> | undefined {
+function torchTimings(python: string, shape: KernelBenchmarkShape): Partial<Record<KernelName, Timing>> | undefined {
   const result = spawnSync(python, ['-c', TORCH_SCRIPT, String(shape.nodes), String(shape.edges), String(shape.columns), String(RUNS)], {
     encoding: 'utf8',
     maxBuffer: 1 << 20,
@@ -142,7 +144,7 @@ function row(cells: string[], widths: number[]): string {
 }
 
 async function benchmarkShape(
-  shape: Shape,
+  shape: KernelBenchmarkShape,
   pool: SpmmPool,
   print: (line: string) => void,
   torch: Partial<Record<KernelName, Timing>> | undefined,
@@ -205,12 +207,12 @@ async function benchmarkShape(
 }
 
 /** Prints the kernel table for both shapes. */
-export async function runKernelBenchmarks(print: (line: string) => void, shapes: Shape[] = SHAPES): Promise<void> {
+export async function runKernelBenchmarks(
+  print: (line: string) => void,
+  shapes: KernelBenchmarkShape[] = KERNEL_BENCHMARK_SHAPES,
+): Promise<void> {
   const backend = await initTensorflow('wasm');
   const python = findPython();
-  // FIELD-NOTES: 47 ms for the CSR product at 20k; the naive JS loop's 125 ms there matches about
-  // 200,000 stored entries, so that figure may be for half the entries of Â here (edges stored
-  // twice, plus self-loops): compare with the torch column timed on the same shape when present.
   print(
     `Graph kernels — medians of ${RUNS} runs after a warm-up; tfjs backend ${backend}; load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores.`,
   );
@@ -233,7 +235,7 @@ export async function runKernelBenchmarks(print: (line: string) => void, shapes:
 }
 
 if (/kernels\.[cm]?[jt]s$/.test(process.argv[1] ?? '')) {
-  const shapes = process.argv.includes('--quick') ? SHAPES.slice(0, 1) : SHAPES;
+  const shapes = process.argv.includes('--quick') ? KERNEL_BENCHMARK_SHAPES.slice(0, 1) : KERNEL_BENCHMARK_SHAPES;
   runKernelBenchmarks((line) => console.log(line), shapes).catch((error) => {
     console.error(error);
     process.exit(1);

@@ -33,6 +33,17 @@ export class EngineFailureError extends Error {
   }
 }
 
+/** A label file changed since it was read: nothing was written; re-reading and applying again is safe. */
+export class LabelFilesConflictError extends Error {
+  constructor(
+    message: string,
+    readonly files: string[],
+  ) {
+    super(message);
+    this.name = 'LabelFilesConflictError';
+  }
+}
+
 /** The worker thread exited (crashed or was terminated) before answering. */
 export class WorkerExitedError extends Error {
   constructor(message: string) {
@@ -47,6 +58,8 @@ export function errorFromFailure(failure: WorkerFailure): Error {
       return new DatasetProblemsError(failure.message, failure.problems);
     case 'cancelled':
       return new RequestCancelledError();
+    case 'conflict':
+      return new LabelFilesConflictError(failure.message, failure.files);
     case 'internal':
       return new EngineFailureError(failure.message, failure.stack);
   }

@@ -206,7 +206,7 @@ function send(worker: Worker, message: HostToWorkerMessage): void {
 }
 
 function engineRequest<K extends RequestType>(type: K, id: number, params: RequestParams[K]): EngineRequest {
-  return { type, id, params };
+  return { type, id, params } as EngineRequest;
 }
 
 function safeJson(value: unknown): string {

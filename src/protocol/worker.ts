@@ -2,24 +2,137 @@
 // file. One union per direction, each discriminated by `type`; every request carries an id that
 // its progress messages and its single final reply (result or error) repeat.
 //
-// Adding a request kind (e.g. `score`): add its parameters to RequestParams, its result to
+// Adding a request kind (e.g. `evaluate`): add its parameters to RequestParams, its result to
 // RequestResults, a guard for each to paramGuards and resultGuards below (the compiler insists),
 // and a handler in src/engine/worker/requestHandlers.ts.
 import type { LocatedProblem } from '../engine/dataset/types';
 import type { DatasetSummary } from '../engine/dataset/summary';
+import type { RunRecord } from '../engine/pipeline/runStore';
+import type { RunSettings } from '../engine/pipeline/runSettings';
+import type { DecisionsFile } from '../engine/decisions/types';
+import type { ApplyPlan } from '../engine/decisions/plan';
+import type { ApplyResult } from '../engine/decisions/apply';
+import type { ReviewSessionJson } from '../review/reviewSession';
+import type { HostToWebviewMessage } from './webview';
 
-export type { DatasetSummary };
+export type { DatasetSummary, RunRecord, RunSettings, DecisionsFile, ApplyPlan, ApplyResult, ReviewSessionJson };
+
+export interface ScoreParams {
+  folder: string;
+  /** Slice key; the newest slice when absent. */
+  slice?: string;
+  settings: RunSettings;
+  /** Group the rejected nodes into candidates (default true). */
+  discover?: boolean;
+}
+
+export interface ScoreOutcome {
+  runId: string;
+  /** Absolute path of runs/<runId>/. */
+  runFolder: string;
+  record: RunRecord;
+  /** Absolute path of candidates.json, null when discovery was skipped. */
+  candidatesFile: string | null;
+  candidateCount: number;
+}
+
+/** A candidate as lists show it (tree view, overview editor). */
+export interface CandidateBrief {
+  id: string;
+  size: number;
+  topTerms: string[];
+  looksLikeDrift: boolean;
+}
+
+export interface DatasetOverview {
+  summary: DatasetSummary;
+  /** Complete runs, newest first (at most overviewRunLimit). */
+  runs: RunRecord[];
+  /** Candidates of the newest run that has them, largest first. */
+  latestCandidates: { runId: string; slice: string; candidates: CandidateBrief[] } | null;
+}
+
+export const overviewRunLimit = 10;
+
+export interface OpenReviewParams {
+  folder: string;
+  runId: string;
+  /** A session saved by the host (workspace state), used when the run folder holds none. */
+  saved?: unknown;
+  /**
+   * Where the worker writes the session after every change (runs/<runId>/pending-decisions.json);
+   * null in Restricted Mode, where nothing is written.
+   */
+  persistPath: string | null;
+}
+
+export interface OpenReviewOutcome {
+  reviewId: number;
+  /** Where the pending decisions came from. */
+  restoredFrom: 'file' | 'state' | 'none';
+  /** Why a saved session could not be used (it is then ignored, never deleted). */
+  restoreProblem?: string;
+  session: ReviewSessionJson;
+  dataset: string;
+  slice: string;
+  /** Threshold previews need the fit kept in memory since the slice was scored in this worker. */
+  previewAvailable: boolean;
+}
+
+export interface ReviewMessageOutcome {
+  /** Messages for the webview, in order. */
+  posts: HostToWebviewMessage[];
+  /** The session after the message, when it changed. */
+  session: ReviewSessionJson | null;
+}
+
+export interface PlanApplyOutcome {
+  plan: ApplyPlan;
+  /** formatPlanSummary(plan). */
+  summary: string;
+}
+
+export interface ApplyPlanOutcome {
+  result: ApplyResult;
+  /** The generated commit message (subject, blank line, body). */
+  commitMessage: string;
+}
+
+export type CommitLabelsOutcome =
+  | { outcome: 'committed'; commit: string; root: string; files: string[] }
+  | { outcome: 'nothing-to-commit' }
+  | { outcome: 'no-repository' };
 
 export interface RequestParams {
   validate: { folder: string };
   summary: { folder: string };
-  // score: added by the lead.
+  overview: { folder: string };
+  score: ScoreParams;
+  openReview: OpenReviewParams;
+  reviewMessage: { reviewId: number; message: unknown };
+  reviewDecisions: { reviewId: number };
+  closeReview: { reviewId: number };
+  planApply: { folder: string; decisions: DecisionsFile; source: string; rebase?: boolean };
+  applyPlan: { plan: ApplyPlan };
+  /** Writes an exported decisions file atomically. */
+  exportDecisions: { file: string; decisions: DecisionsFile };
+  /** git without a shell: commits only the dataset's label files; `initialise` runs git init first when needed. */
+  commitLabels: { folder: string; message: string; initialise?: boolean };
 }
 
 export interface RequestResults {
   validate: LocatedProblem[];
   summary: DatasetSummary;
-  // score: added by the lead.
+  overview: DatasetOverview;
+  score: ScoreOutcome;
+  openReview: OpenReviewOutcome;
+  reviewMessage: ReviewMessageOutcome;
+  reviewDecisions: DecisionsFile;
+  closeReview: boolean;
+  planApply: PlanApplyOutcome;
+  applyPlan: ApplyPlanOutcome;
+  exportDecisions: string;
+  commitLabels: CommitLabelsOutcome;
 }
 
 export type RequestType = keyof RequestParams;
@@ -55,6 +168,8 @@ export type WorkerFailure =
   /** The dataset is malformed: problems located in its files. */
   | { kind: 'dataset'; message: string; problems: LocatedProblem[] }
   | { kind: 'cancelled'; message: string }
+  /** A label file changed since it was read: nothing was written; re-read and apply again. */
+  | { kind: 'conflict'; message: string; files: string[] }
   /** Anything else: a bug or an I/O failure inside the worker. */
   | { kind: 'internal'; message: string; stack?: string };
 
@@ -92,18 +207,93 @@ export function isLocatedProblem(value: unknown): value is LocatedProblem {
   );
 }
 
-function isFolderParams(value: unknown): boolean {
+function isFolderParams(value: unknown): value is { folder: string } {
   return isRecord(value) && typeof value.folder === 'string' && value.folder.length > 0;
 }
+
+const isWhole = (value: unknown, minimum: number): boolean => typeof value === 'number' && Number.isInteger(value) && value >= minimum;
+const isNumberIn = (value: unknown, low: number, high: number): boolean => typeof value === 'number' && Number.isFinite(value) && value >= low && value <= high;
+
+/** Why `value` is not a complete RunSettings, or null when it is one. */
+export function runSettingsProblem(value: unknown): string | null {
+  if (!isRecord(value)) return 'settings are not an object';
+  const checks: [keyof RunSettings, boolean][] = [
+    ['model', ['mlp', 'gcn', 'sage', 'sign'].includes(value.model as string)],
+    ['historyWindow', value.historyWindow === 'all' || isWhole(value.historyWindow, 0)],
+    ['alpha', isNumberIn(value.alpha, 0, 100)],
+    ['thresholdFolds', value.thresholdFolds === 0 || isWhole(value.thresholdFolds, 2)],
+    ['thresholdScale', value.thresholdScale === 'std' || value.thresholdScale === 'mad'],
+    ['smoothingWeight', isNumberIn(value.smoothingWeight, 0, 1)],
+    ['smoothingRounds', isWhole(value.smoothingRounds, 0)],
+    ['noveltyMethod', ['doc', 'msp', 'energy'].includes(value.noveltyMethod as string)],
+    ['rejectQuantile', value.rejectQuantile === null || (isNumberIn(value.rejectQuantile, 0, 1) && value.rejectQuantile !== 0 && value.rejectQuantile !== 1)],
+    ['temperature', isNumberIn(value.temperature, Number.MIN_VALUE, 1e6)],
+    ['labelRate', isNumberIn(value.labelRate, Number.MIN_VALUE, 1)],
+    ['warmStart', typeof value.warmStart === 'boolean'],
+    ['epochs', isWhole(value.epochs, 1)],
+    ['hiddenUnits', isWhole(value.hiddenUnits, 1)],
+    ['learningRate', isNumberIn(value.learningRate, Number.MIN_VALUE, 10)],
+    ['seed', isWhole(value.seed, Number.MIN_SAFE_INTEGER)],
+  ];
+  const bad = checks.filter(([, ok]) => !ok).map(([key]) => key);
+  return bad.length === 0 ? null : `settings have missing or out-of-range ${bad.join(', ')}`;
+}
+
+const isReviewId = (value: unknown): boolean => isRecord(value) && isRequestId(value.reviewId);
+const isOptionalText = (value: unknown): boolean => value === undefined || typeof value === 'string';
+const isDecisionsFileShape = (value: unknown): boolean =>
+  isRecord(value) && value.format === 'graph-curator-decisions' && Array.isArray(value.decisions) && typeof value.dataset === 'string';
+const isStringList = (value: unknown): value is string[] => Array.isArray(value) && value.every((item) => typeof item === 'string');
 
 const paramGuards: { [K in RequestType]: Guard } = {
   validate: isFolderParams,
   summary: isFolderParams,
+  overview: isFolderParams,
+  score: (value) =>
+    isFolderParams(value) &&
+    isOptionalText((value as Record<string, unknown>).slice) &&
+    ((value as Record<string, unknown>).discover === undefined || typeof (value as Record<string, unknown>).discover === 'boolean') &&
+    runSettingsProblem((value as Record<string, unknown>).settings) === null,
+  openReview: (value) =>
+    isFolderParams(value) &&
+    typeof (value as Record<string, unknown>).runId === 'string' &&
+    /^[A-Za-z0-9._-]+$/.test((value as Record<string, unknown>).runId as string) &&
+    ((value as Record<string, unknown>).persistPath === null || typeof (value as Record<string, unknown>).persistPath === 'string'),
+  reviewMessage: (value) => isReviewId(value) && 'message' in (value as Record<string, unknown>),
+  reviewDecisions: isReviewId,
+  closeReview: isReviewId,
+  planApply: (value) =>
+    isFolderParams(value) &&
+    isDecisionsFileShape((value as Record<string, unknown>).decisions) &&
+    typeof (value as Record<string, unknown>).source === 'string' &&
+    ((value as Record<string, unknown>).rebase === undefined || typeof (value as Record<string, unknown>).rebase === 'boolean'),
+  applyPlan: (value) => isRecord(value) && isRecord(value.plan) && typeof value.plan.folder === 'string',
+  exportDecisions: (value) => isRecord(value) && typeof value.file === 'string' && value.file.length > 0 && isDecisionsFileShape(value.decisions),
+  commitLabels: (value) =>
+    isFolderParams(value) &&
+    typeof (value as Record<string, unknown>).message === 'string' &&
+    ((value as Record<string, unknown>).message as string).trim().length > 0 &&
+    ((value as Record<string, unknown>).initialise === undefined || typeof (value as Record<string, unknown>).initialise === 'boolean'),
 };
 
 const resultGuards: { [K in RequestType]: Guard } = {
   validate: (value) => Array.isArray(value) && value.every(isLocatedProblem),
   summary: isRecord,
+  overview: (value) => isRecord(value) && isRecord(value.summary) && Array.isArray(value.runs),
+  score: (value) =>
+    isRecord(value) && typeof value.runId === 'string' && typeof value.runFolder === 'string' && isRecord(value.record) && (value.candidatesFile === null || typeof value.candidatesFile === 'string'),
+  openReview: (value) => isRecord(value) && isRequestId(value.reviewId) && isRecord(value.session) && typeof value.previewAvailable === 'boolean',
+  reviewMessage: (value) => isRecord(value) && Array.isArray(value.posts) && (value.session === null || isRecord(value.session)),
+  reviewDecisions: isDecisionsFileShape,
+  closeReview: (value) => typeof value === 'boolean',
+  planApply: (value) => isRecord(value) && isRecord(value.plan) && typeof value.summary === 'string',
+  applyPlan: (value) => isRecord(value) && isRecord(value.result) && typeof value.commitMessage === 'string',
+  exportDecisions: (value) => typeof value === 'string',
+  commitLabels: (value) =>
+    isRecord(value) &&
+    (value.outcome === 'nothing-to-commit' ||
+      value.outcome === 'no-repository' ||
+      (value.outcome === 'committed' && typeof value.commit === 'string' && isStringList(value.files))),
 };
 
 export const requestTypes = Object.keys(paramGuards) as RequestType[];
@@ -153,6 +343,8 @@ function isWorkerFailure(value: unknown): value is WorkerFailure {
       return Array.isArray(value.problems) && value.problems.every(isLocatedProblem);
     case 'cancelled':
       return true;
+    case 'conflict':
+      return isStringList(value.files);
     case 'internal':
       return value.stack === undefined || typeof value.stack === 'string';
     default:

@@ -31,7 +31,9 @@ describe('applyPlan', () => {
     const expected = expectedLabels(original, demo.file.decisions);
     const changed = [...expected].filter(([id, label]) => original.get(id) !== label);
 
-    const result = await applyPlan(await planApply(folder, demo.file, { source: 'decisions.json' }), { now: new Date('2025-01-10T12:00:00.000Z') });
+    const result = await applyPlan(await planApply(folder, demo.file, { source: 'decisions.json' }), {
+      now: new Date('2025-01-10T12:00:00.000Z'),
+    });
     assert.deepEqual(result.written, ['labels.csv', 'classes.json']);
 
     const newText = await fs.readFile(labelsPath, 'utf8');
@@ -41,28 +43,54 @@ describe('applyPlan', () => {
     const removed = lines(oldText).filter((l) => !after.has(l));
     // Only the changed nodes' lines differ: new lines for all of them, old lines for those that had a label.
     assert.deepEqual(added.sort(), changed.map(([id, label]) => `${id},${label}`).sort());
-    assert.deepEqual(removed.sort(), changed.filter(([id]) => original.has(id)).map(([id]) => `${id},${original.get(id)}`).sort());
+    assert.deepEqual(
+      removed.sort(),
+      changed
+        .filter(([id]) => original.has(id))
+        .map(([id]) => `${id},${original.get(id)}`)
+        .sort(),
+    );
     assert.deepEqual(await readLabelsIndependently(labelsPath), expected);
     assert.ok(newText.startsWith('id,label\n') && !newText.includes('\r'));
-    const ids = lines(newText).slice(1).map((l) => l.split(',')[0]);
+    const ids = lines(newText)
+      .slice(1)
+      .map((l) => l.split(',')[0]);
     assert.deepEqual(ids, [...ids].sort());
 
-    const classes = JSON.parse(await fs.readFile(path.join(folder, 'classes.json'), 'utf8')).classes as { name: string; introducedIn: string; status: string }[];
-    assert.deepEqual(classes.slice(6).map((c) => [c.name, c.introducedIn, c.status]), [
-      ['lightning-receptor-damage', '2024-Q4', 'active'],
-      ['main-shaft-cracking', '2024-Q4', 'active'],
-    ]);
+    const classes = (
+      JSON.parse(await fs.readFile(path.join(folder, 'classes.json'), 'utf8')) as {
+        classes: {
+          name: string;
+          introducedIn: string;
+          status: string;
+        }[];
+      }
+    ).classes;
+    assert.deepEqual(
+      classes.slice(6).map((c) => [c.name, c.introducedIn, c.status]),
+      [
+        ['lightning-receptor-damage', '2024-Q4', 'active'],
+        ['main-shaft-cracking', '2024-Q4', 'active'],
+      ],
+    );
 
-    const logLines = lines(await fs.readFile(path.join(folder, 'label-log.jsonl'), 'utf8')).map((l) => JSON.parse(l));
+    const logLines = lines(await fs.readFile(path.join(folder, 'label-log.jsonl'), 'utf8')).map(
+      (l) => JSON.parse(l) as Record<string, string>,
+    );
     assert.equal(logLines.length, changed.length + 2);
     assert.equal(logLines[0].phase, 'begin');
-    assert.equal(logLines.at(-1).phase, 'commit');
+    assert.equal(logLines[logLines.length - 1].phase, 'commit');
     const entries = logLines.slice(1, -1);
     assert.deepEqual(entries.map((e) => e.node).sort(), changed.map(([id]) => id).sort());
-    assert.ok(entries.every((e) => e.time === '2025-01-10T12:00:00.000Z' && e.batch === result.batch && e.newLabel === expected.get(e.node)));
+    assert.ok(
+      entries.every((e) => e.time === '2025-01-10T12:00:00.000Z' && e.batch === result.batch && e.newLabel === expected.get(e.node)),
+    );
 
     const batches = await readAppliedBatches(folder);
-    assert.deepEqual(batches.batches.map((b) => b.state), ['committed']);
+    assert.deepEqual(
+      batches.batches.map((b) => b.state),
+      ['committed'],
+    );
     assert.equal(effectiveEntries(batches).length, changed.length);
     // The dataset layer still reads the folder (and the log with its batch lines) without problems.
     assert.deepEqual(await validateDatasetFolder(folder), []);
@@ -101,9 +129,15 @@ describe('applyPlan', () => {
     const plan = await planApply(folder, demo.file);
     // Someone edits one label meanwhile.
     const labelsPath = path.join(folder, 'labels.csv');
-    await fs.writeFile(labelsPath, (await fs.readFile(labelsPath, 'utf8')).replace('R000001,yaw-drive-misalignment', 'R000001,pitch-system-fault'));
+    await fs.writeFile(
+      labelsPath,
+      (await fs.readFile(labelsPath, 'utf8')).replace('R000001,yaw-drive-misalignment', 'R000001,pitch-system-fault'),
+    );
     const hashes = await hashFolder(folder);
-    await assert.rejects(applyPlan(plan), (error: unknown) => error instanceof ConflictError && error.files.join() === 'labels.csv' && error.conflicts[0].since === 'plan');
+    await assert.rejects(
+      applyPlan(plan),
+      (error: unknown) => error instanceof ConflictError && error.files.join() === 'labels.csv' && error.conflicts[0].since === 'plan',
+    );
     assert.deepEqual(await hashFolder(folder), hashes);
   });
 
@@ -114,13 +148,16 @@ describe('applyPlan', () => {
     await fs.writeFile(classesPath, (await fs.readFile(classesPath, 'utf8')).replace('Wear or spalling', 'Wear and spalling'));
     const hashes = await hashFolder(folder);
     const plan = await planApply(folder, demo.file);
-    assert.deepEqual(plan.baseConflicts.map((c) => [c.file, c.since]), [['classes.json', 'run']]);
+    assert.deepEqual(
+      plan.baseConflicts.map((c) => [c.file, c.since]),
+      [['classes.json', 'run']],
+    );
     await assert.rejects(applyPlan(plan), ConflictError);
     assert.deepEqual(await hashFolder(folder), hashes);
 
     const rebased = await planApply(folder, demo.file, { rebase: true });
     await applyPlan(rebased);
-    const classes = JSON.parse(await fs.readFile(classesPath, 'utf8')).classes as { description: string }[];
+    const classes = (JSON.parse(await fs.readFile(classesPath, 'utf8')) as { classes: { description: string }[] }).classes;
     assert.match(classes[0].description, /^Wear and spalling/);
   });
 
@@ -132,13 +169,18 @@ describe('applyPlan', () => {
     const classesPath = path.join(folder, 'classes.json');
     const edited = (await fs.readFile(classesPath, 'utf8')).replace('Wear or spalling', 'Worn');
     await assert.rejects(
-      applyPlan(plan, { hooks: { step: async (step) => (step === 'before-classes-rename' ? fs.writeFile(classesPath, edited) : undefined) } }),
+      applyPlan(plan, {
+        hooks: { step: async (step) => (step === 'before-classes-rename' ? fs.writeFile(classesPath, edited) : undefined) },
+      }),
       (error: unknown) => error instanceof ConflictError && error.files.join() === 'classes.json',
     );
     assert.equal(await fs.readFile(path.join(folder, 'labels.csv'), 'utf8'), labelsBefore);
     assert.equal(await fs.readFile(classesPath, 'utf8'), edited);
     const batches = await readAppliedBatches(folder);
-    assert.deepEqual(batches.batches.map((b) => b.state), ['aborted']);
+    assert.deepEqual(
+      batches.batches.map((b) => b.state),
+      ['aborted'],
+    );
     assert.equal(effectiveEntries(batches).length, 0);
   });
 
@@ -146,11 +188,20 @@ describe('applyPlan', () => {
     const folder = await copyDemo();
     const demo = await demoDecisions(folder);
     const odd = 'cracks, "hairline"';
-    const decisions: Decision[] = [{ id: 'q', kind: 'move-members', madeAt: '2025-01-10T09:00:00Z', members: [demo.shaftMembers[0]], className: odd, description: 'odd name' }];
+    const decisions: Decision[] = [
+      {
+        id: 'q',
+        kind: 'move-members',
+        madeAt: '2025-01-10T09:00:00Z',
+        members: [demo.shaftMembers[0]],
+        className: odd,
+        description: 'odd name',
+      },
+    ];
     await applyPlan(await planApply(folder, { ...demo.file, decisions }));
     const text = await fs.readFile(path.join(folder, 'labels.csv'), 'utf8');
     // csv-parse, an independent RFC 4180 parser, reads the name back unchanged.
-    const rows = parse(text, { columns: true }) as { id: string; label: string }[];
+    const rows = parse<{ id: string; label: string }>(text, { columns: true });
     assert.equal(rows.find((r) => r.id === demo.shaftMembers[0])?.label, odd);
     assert.ok(text.includes(`${demo.shaftMembers[0]},"cracks, ""hairline"""\n`));
   });

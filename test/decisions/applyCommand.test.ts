@@ -18,7 +18,7 @@ describe('graph-curator apply', () => {
   let decisionsPath: string;
   const savedEnv: Record<string, string | undefined> = {};
 
-  before(async () => {
+  before(() => {
     // The command runs git with the process environment: give it a test identity and no user config.
     for (const [key, value] of Object.entries(GIT_TEST_ENV)) {
       savedEnv[key] = process.env[key];
@@ -82,9 +82,18 @@ describe('graph-curator apply', () => {
     // Someone edits a label by hand; a later export of the same review, with one more decision,
     // was made on the files before that edit: conflict, nothing written.
     const labelsPath = path.join(folder, 'labels.csv');
-    await fs.writeFile(labelsPath, (await fs.readFile(labelsPath, 'utf8')).replace('R000001,yaw-drive-misalignment', 'R000001,pitch-system-fault'));
-    const stale = JSON.parse(await fs.readFile(decisionsPath, 'utf8'));
-    stale.decisions.push({ id: 'd-0100', kind: 'merge-classes', madeAt: '2025-01-10T10:00:00Z', from: 'converter-fault', into: 'pitch-system-fault' });
+    await fs.writeFile(
+      labelsPath,
+      (await fs.readFile(labelsPath, 'utf8')).replace('R000001,yaw-drive-misalignment', 'R000001,pitch-system-fault'),
+    );
+    const stale = JSON.parse(await fs.readFile(decisionsPath, 'utf8')) as { decisions: object[] };
+    stale.decisions.push({
+      id: 'd-0100',
+      kind: 'merge-classes',
+      madeAt: '2025-01-10T10:00:00Z',
+      from: 'converter-fault',
+      into: 'pitch-system-fault',
+    });
     await fs.writeFile(decisionsPath, JSON.stringify(stale));
     const hashes = await hashFolder(folder);
     const conflict = await cli('apply', folder, '--decisions', decisionsPath);

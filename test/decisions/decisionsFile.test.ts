@@ -30,7 +30,10 @@ describe('decisions file', () => {
     assert.equal(read.decisions, null);
     // Line 4 is `  "decisions": [ { "id": "d-1" } ,, ]`; the second comma is at column 35 (counted by hand).
     assert.equal(text.split('\n')[3].indexOf(',,') + 2, 35);
-    assert.deepEqual(read.problems.map((p) => [p.file, p.line, p.column]), [['d.json', 4, 35]]);
+    assert.deepEqual(
+      read.problems.map((p) => [p.file, p.line, p.column]),
+      [['d.json', 4, 35]],
+    );
   });
 
   it('locates shape problems at the offending value, naming the decision', () => {
@@ -46,7 +49,11 @@ describe('decisions file', () => {
       read.problems.map((p) => [p.line, p.column, p.message]),
       [
         [lineOf('"version"'), lines[lineOf('"version"') - 1].indexOf('2') + 1, '"version" must be 1 (this tool reads version 1)'],
-        [lineOf('7'), lines[lineOf('7') - 1].indexOf('7') + 1, 'decision #1 (d-1, merge-into-class): "members"[1] must be a non-empty string'],
+        [
+          lineOf('7'),
+          lines[lineOf('7') - 1].indexOf('7') + 1,
+          'decision #1 (d-1, merge-into-class): "members"[1] must be a non-empty string',
+        ],
         [lineOf('"d-2"') - 1, 5, 'decision #2 (d-2, merge-classes): missing "into"'],
       ],
     );
@@ -62,9 +69,22 @@ describe('decisions file', () => {
   });
 
   it('the JSON Schema lists the same decision kinds and required fields as the reader', async () => {
-    const schema = JSON.parse(await fs.readFile(path.resolve(__dirname, '../../schemas/decisions.schema.json'), 'utf8'));
-    const kinds = (schema.definitions.decision.oneOf as { $ref: string }[]).map((r) => schema.definitions[r.$ref.split('/').pop()!].properties.kind.const);
+    interface Schema {
+      required: string[];
+      definitions: Record<string, { oneOf?: { $ref: string }[]; properties?: { kind?: { const: string } } }>;
+    }
+    const schema = JSON.parse(await fs.readFile(path.resolve(__dirname, '../../schemas/decisions.schema.json'), 'utf8')) as Schema;
+    const kinds = schema.definitions.decision.oneOf!.map((r) => schema.definitions[r.$ref.split('/').pop()!].properties!.kind!.const);
     assert.deepEqual([...kinds].sort(), [...DECISION_KINDS].sort());
-    assert.deepEqual([...schema.required].sort(), ['baseHashes', 'dataset', 'decisions', 'format', 'runId', 'settingsHash', 'slice', 'version']);
+    assert.deepEqual([...schema.required].sort(), [
+      'baseHashes',
+      'dataset',
+      'decisions',
+      'format',
+      'runId',
+      'settingsHash',
+      'slice',
+      'version',
+    ]);
   });
 });

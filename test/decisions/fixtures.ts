@@ -35,13 +35,15 @@ export async function removeTemporaryFolders(): Promise<void> {
 
 /** id → label, read with csv-parse (an independent RFC 4180 parser). */
 export async function readLabelsIndependently(file: string): Promise<Map<string, string>> {
-  const rows = parse(await fs.readFile(file), { columns: true, bom: true }) as { id: string; label: string }[];
+  const rows = parse<{ id: string; label: string }>(await fs.readFile(file), { columns: true, bom: true });
   return new Map(rows.map((r) => [r.id, r.label]));
 }
 
 export async function sha256OfFile(file: string): Promise<string | null> {
   try {
-    return createHash('sha256').update(await fs.readFile(file)).digest('hex');
+    return createHash('sha256')
+      .update(await fs.readFile(file))
+      .digest('hex');
   } catch {
     return null;
   }
@@ -74,20 +76,46 @@ export interface DemoDecisions {
  * that label), correct one node, and several review-only decisions.
  */
 export async function demoDecisions(folder: string, overrides: Partial<DecisionsFile> = {}): Promise<DemoDecisions> {
-  const truth = parse(await fs.readFile(DEMO_TRUTH), { columns: true }) as { id: string; label: string }[];
+  const truth = parse<{ id: string; label: string }>(await fs.readFile(DEMO_TRUTH), { columns: true });
   const labels = await readLabelsIndependently(path.join(folder, 'labels.csv'));
   const unlabelledOf = (cls: string): string[] => truth.filter((r) => r.label === cls && !labels.has(r.id)).map((r) => r.id);
   const lightningMembers = unlabelledOf('lightning-receptor-damage').slice(0, 30);
   const shaftMembers = unlabelledOf('main-shaft-cracking').slice(0, 5);
-  const alreadyErosion = [...labels].filter(([, l]) => l === 'blade-surface-erosion').map(([id]) => id).slice(0, 2);
+  const alreadyErosion = [...labels]
+    .filter(([, l]) => l === 'blade-surface-erosion')
+    .map(([id]) => id)
+    .slice(0, 2);
   const erosionMembers = [...unlabelledOf('blade-surface-erosion').slice(0, 10), ...alreadyErosion];
   const correctedNode = lightningMembers[3];
   const madeAt = (minute: number): string => `2025-01-10T09:${String(minute).padStart(2, '0')}:00.000Z`;
   const decisions: Decision[] = [
-    { id: 'd-0001', kind: 'name-new-class', madeAt: madeAt(1), candidateId: 'c-2024-Q4-1', members: lightningMembers, className: 'lightning-receptor-damage', description: 'Receptor and blade tip damage after lightning strikes.' },
+    {
+      id: 'd-0001',
+      kind: 'name-new-class',
+      madeAt: madeAt(1),
+      candidateId: 'c-2024-Q4-1',
+      members: lightningMembers,
+      className: 'lightning-receptor-damage',
+      description: 'Receptor and blade tip damage after lightning strikes.',
+    },
     { id: 'd-0002', kind: 'skip', madeAt: madeAt(2), candidateId: 'c-2024-Q4-2' },
-    { id: 'd-0003', kind: 'merge-into-class', madeAt: madeAt(3), candidateId: 'c-2024-Q4-3', members: erosionMembers, className: 'blade-surface-erosion', note: 'coating delamination is erosion' },
-    { id: 'd-0004', kind: 'move-members', madeAt: madeAt(4), members: shaftMembers, className: 'main-shaft-cracking', description: 'Cracks in the main shaft.' },
+    {
+      id: 'd-0003',
+      kind: 'merge-into-class',
+      madeAt: madeAt(3),
+      candidateId: 'c-2024-Q4-3',
+      members: erosionMembers,
+      className: 'blade-surface-erosion',
+      note: 'coating delamination is erosion',
+    },
+    {
+      id: 'd-0004',
+      kind: 'move-members',
+      madeAt: madeAt(4),
+      members: shaftMembers,
+      className: 'main-shaft-cracking',
+      description: 'Cracks in the main shaft.',
+    },
     { id: 'd-0005', kind: 'move-members', madeAt: madeAt(5), members: [correctedNode], className: 'blade-surface-erosion' },
     { id: 'd-0006', kind: 'dismiss', madeAt: madeAt(6), candidateId: 'c-2024-Q4-4' },
     { id: 'd-0007', kind: 'keep-label', madeAt: madeAt(7), node: alreadyErosion[0] },
@@ -100,7 +128,10 @@ export async function demoDecisions(folder: string, overrides: Partial<Decisions
     runId: '2025-01-10T09-00-00-000Z-2024-Q4-abc123',
     settingsHash: 'f00dfeed',
     slice: '2024-Q4',
-    baseHashes: { 'labels.csv': (await sha256OfFile(path.join(folder, 'labels.csv')))!, 'classes.json': (await sha256OfFile(path.join(folder, 'classes.json')))! },
+    baseHashes: {
+      'labels.csv': (await sha256OfFile(path.join(folder, 'labels.csv')))!,
+      'classes.json': (await sha256OfFile(path.join(folder, 'classes.json')))!,
+    },
     decisions,
     ...overrides,
   };
@@ -115,7 +146,8 @@ export async function demoDecisions(folder: string, overrides: Partial<Decisions
 export function expectedLabels(original: Map<string, string>, decisions: Decision[]): Map<string, string> {
   const labels = new Map(original);
   for (const d of decisions) {
-    if (d.kind === 'name-new-class' || d.kind === 'merge-into-class' || d.kind === 'move-members') for (const m of d.members) labels.set(m, d.className);
+    if (d.kind === 'name-new-class' || d.kind === 'merge-into-class' || d.kind === 'move-members')
+      for (const m of d.members) labels.set(m, d.className);
     if (d.kind === 'merge-classes') for (const [id, l] of labels) if (l === d.from) labels.set(id, d.into);
   }
   return labels;

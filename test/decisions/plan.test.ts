@@ -30,8 +30,14 @@ describe('planApply', () => {
     const expected = expectedLabels(original, demo.file.decisions);
     const plan = await planApply(folder, demo.file, { source: 'decisions.json' });
 
-    const expectedChanges = [...expected].filter(([id, label]) => original.get(id) !== label).map(([id]) => id).sort();
-    assert.deepEqual(plan.changes.map((c) => c.node), expectedChanges);
+    const expectedChanges = [...expected]
+      .filter(([id, label]) => original.get(id) !== label)
+      .map(([id]) => id)
+      .sort();
+    assert.deepEqual(
+      plan.changes.map((c) => c.node),
+      expectedChanges,
+    );
     for (const change of plan.changes) {
       assert.equal(change.newLabel, expected.get(change.node));
       assert.equal(change.oldLabel, original.get(change.node) ?? null);
@@ -51,7 +57,9 @@ describe('planApply', () => {
     );
     // One log line per changed node, carrying the run and decision.
     assert.equal(plan.logEntries.length, 45);
-    assert.ok(plan.logEntries.every((e) => e.runId === demo.file.runId && e.settingsHash === 'f00dfeed' && e.decisionId?.startsWith('d-000')));
+    assert.ok(
+      plan.logEntries.every((e) => e.runId === demo.file.runId && e.settingsHash === 'f00dfeed' && e.decisionId?.startsWith('d-000')),
+    );
     const count = (name: string) => plan.counts.find((c) => c.name === name)!;
     assert.deepEqual([count('lightning-receptor-damage').before, count('lightning-receptor-damage').after], [0, 29]);
     assert.deepEqual([count('blade-surface-erosion').before, count('blade-surface-erosion').after], [256, 256 + 10 + 1]);
@@ -61,19 +69,37 @@ describe('planApply', () => {
 
   it('merge-classes relabels every node of the class and marks it merged', async () => {
     const demo = await demoDecisions(folder);
-    const merge: Decision = { id: 'd-0100', kind: 'merge-classes', madeAt: '2025-01-10T10:00:00Z', from: 'yaw-drive-misalignment', into: 'pitch-system-fault' };
+    const merge: Decision = {
+      id: 'd-0100',
+      kind: 'merge-classes',
+      madeAt: '2025-01-10T10:00:00Z',
+      from: 'yaw-drive-misalignment',
+      into: 'pitch-system-fault',
+    };
     const plan = await planApply(folder, { ...demo.file, decisions: [merge] });
     const original = await readLabelsIndependently(path.join(folder, 'labels.csv'));
     const yaw = [...original].filter(([, l]) => l === 'yaw-drive-misalignment').length;
     assert.equal(plan.changes.length, yaw);
     assert.ok(plan.changes.every((c) => c.oldLabel === 'yaw-drive-misalignment' && c.newLabel === 'pitch-system-fault'));
-    assert.deepEqual(plan.classes.find((c) => c.name === 'yaw-drive-misalignment'), { name: 'yaw-drive-misalignment', description: plan.classes.find((c) => c.name === 'yaw-drive-misalignment')!.description, introducedIn: '2019-Q1', status: 'merged', mergedInto: 'pitch-system-fault' });
+    assert.deepEqual(
+      plan.classes.find((c) => c.name === 'yaw-drive-misalignment'),
+      {
+        name: 'yaw-drive-misalignment',
+        description: plan.classes.find((c) => c.name === 'yaw-drive-misalignment')!.description,
+        introducedIn: '2019-Q1',
+        status: 'merged',
+        mergedInto: 'pitch-system-fault',
+      },
+    );
     assert.deepEqual(plan.classesMerged, [{ from: 'yaw-drive-misalignment', into: 'pitch-system-fault' }]);
   });
 
   it('review-only decisions change nothing', async () => {
     const demo = await demoDecisions(folder);
-    const plan = await planApply(folder, { ...demo.file, decisions: demo.file.decisions.filter((d) => ['skip', 'dismiss', 'keep-label', 'split-candidate'].includes(d.kind)) });
+    const plan = await planApply(folder, {
+      ...demo.file,
+      decisions: demo.file.decisions.filter((d) => ['skip', 'dismiss', 'keep-label', 'split-candidate'].includes(d.kind)),
+    });
     assert.equal(plan.hasChanges, false);
     assert.equal(plan.changes.length, 0);
     assert.equal(plan.labelsFile.changed, false);
@@ -83,10 +109,39 @@ describe('planApply', () => {
   it('names the decisions file, line and column of each invalid decision', async () => {
     const demo = await demoDecisions(folder);
     const decisions: Decision[] = [
-      { id: 'd-1', kind: 'name-new-class', madeAt: '2025-01-10T09:00:00Z', candidateId: 'c1', members: ['R000002', 'NO-SUCH-NODE'], className: 'gearbox-bearing-wear', description: 'clash' },
-      { id: 'd-2', kind: 'merge-into-class', madeAt: '2025-01-10T09:00:00Z', candidateId: 'c2', members: ['R000003'], className: 'no-such-class' },
-      { id: 'd-3', kind: 'merge-into-class', madeAt: '2025-01-10T09:00:00Z', candidateId: 'c3', members: ['R000005'], className: 'converter-fault' },
-      { id: 'd-4', kind: 'merge-into-class', madeAt: '2025-01-10T09:00:00Z', candidateId: 'c4', members: ['R000005'], className: 'pitch-system-fault' },
+      {
+        id: 'd-1',
+        kind: 'name-new-class',
+        madeAt: '2025-01-10T09:00:00Z',
+        candidateId: 'c1',
+        members: ['R000002', 'NO-SUCH-NODE'],
+        className: 'gearbox-bearing-wear',
+        description: 'clash',
+      },
+      {
+        id: 'd-2',
+        kind: 'merge-into-class',
+        madeAt: '2025-01-10T09:00:00Z',
+        candidateId: 'c2',
+        members: ['R000003'],
+        className: 'no-such-class',
+      },
+      {
+        id: 'd-3',
+        kind: 'merge-into-class',
+        madeAt: '2025-01-10T09:00:00Z',
+        candidateId: 'c3',
+        members: ['R000005'],
+        className: 'converter-fault',
+      },
+      {
+        id: 'd-4',
+        kind: 'merge-into-class',
+        madeAt: '2025-01-10T09:00:00Z',
+        candidateId: 'c4',
+        members: ['R000005'],
+        className: 'pitch-system-fault',
+      },
       { id: 'd-1', kind: 'keep-label', madeAt: '2025-01-10T09:00:00Z', node: 'ALSO-MISSING' },
     ];
     const text = JSON.stringify({ ...demo.file, decisions }, null, 2);
@@ -105,11 +160,24 @@ describe('planApply', () => {
     };
     const byMessage = (part: string) => error.problems.find((p) => p.message.includes(part));
     assert.ok(error.problems.every((p) => p.file === 'review.json'));
-    assert.deepEqual({ ...byMessage('unknown node "NO-SUCH-NODE"') }, { file: 'review.json', ...positionOf('"NO-SUCH-NODE"'), message: 'decision #1 (d-1, name-new-class): unknown node "NO-SUCH-NODE" (not in nodes.csv)' });
-    assert.deepEqual(positionOf('"gearbox-bearing-wear"', 1), { line: byMessage('exists already')!.line, column: byMessage('exists already')!.column });
+    assert.deepEqual(
+      { ...byMessage('unknown node "NO-SUCH-NODE"') },
+      {
+        file: 'review.json',
+        ...positionOf('"NO-SUCH-NODE"'),
+        message: 'decision #1 (d-1, name-new-class): unknown node "NO-SUCH-NODE" (not in nodes.csv)',
+      },
+    );
+    assert.deepEqual(positionOf('"gearbox-bearing-wear"', 1), {
+      line: byMessage('exists already')!.line,
+      column: byMessage('exists already')!.column,
+    });
     assert.match(byMessage('exists already')!.message, /decision #1 .*class "gearbox-bearing-wear" exists already \(in classes.json\)/);
     assert.match(byMessage('no class "no-such-class"')!.message, /^decision #2 \(d-2, merge-into-class\)/);
-    assert.match(byMessage('node "R000005" is given')!.message, /^decision #4 .*"converter-fault" by decision #3 \(d-3\) and "pitch-system-fault" here/);
+    assert.match(
+      byMessage('node "R000005" is given')!.message,
+      /^decision #4 .*"converter-fault" by decision #3 \(d-3\) and "pitch-system-fault" here/,
+    );
     assert.match(byMessage('id "d-1" is used')!.message, /^decision #5/);
     assert.ok(byMessage('unknown node "ALSO-MISSING"'));
     assert.equal(error.problems.length, 6);
@@ -137,14 +205,23 @@ describe('planApply', () => {
     const error = await problemsOf(planApply(folder, broken));
     assert.deepEqual(
       error.problems.map((p) => p.message),
-      ['decision #1 (x, rename-everything): "madeAt" must be an ISO-8601 time', 'decision #1 (x, rename-everything): "kind" must be one of "name-new-class", "merge-into-class", "move-members", "merge-classes", "merge-candidates", "split-candidate", "dismiss", "skip", "keep-label"'],
+      [
+        'decision #1 (x, rename-everything): "madeAt" must be an ISO-8601 time',
+        'decision #1 (x, rename-everything): "kind" must be one of "name-new-class", "merge-into-class", "move-members", "merge-classes", "merge-candidates", "split-candidate", "dismiss", "skip", "keep-label"',
+      ],
     );
   });
 
   it('refuses to plan while an earlier apply is interrupted', async () => {
     const other = await copyDemo();
-    await fs.appendFile(path.join(other, 'label-log.jsonl'), JSON.stringify({ batch: 'b-1', phase: 'begin', time: '2025-01-01T00:00:00Z', files: {} }) + '\n');
+    await fs.appendFile(
+      path.join(other, 'label-log.jsonl'),
+      JSON.stringify({ batch: 'b-1', phase: 'begin', time: '2025-01-01T00:00:00Z', files: {} }) + '\n',
+    );
     const demo = await demoDecisions(other);
-    await assert.rejects(planApply(other, demo.file), (error: unknown) => error instanceof InterruptedApplyError && error.batches[0] === 'b-1');
+    await assert.rejects(
+      planApply(other, demo.file),
+      (error: unknown) => error instanceof InterruptedApplyError && error.batches[0] === 'b-1',
+    );
   });
 });

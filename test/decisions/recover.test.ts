@@ -52,24 +52,36 @@ describe('an apply interrupted at each step', () => {
       assert.equal(await state(plan.classesFile), expected.classes);
 
       const logged = await readAppliedBatches(folder);
-      assert.deepEqual(logged.batches.map((b) => b.state), expected.outcome === null ? (step === 'after-log-commit' ? ['committed'] : []) : ['interrupted']);
+      assert.deepEqual(
+        logged.batches.map((b) => b.state),
+        expected.outcome === null ? (step === 'after-log-commit' ? ['committed'] : []) : ['interrupted'],
+      );
 
       // A killed process (unlike a thrown hook) leaves its temporary file behind.
       if (step === 'before-labels-rename') await fs.writeFile(path.join(folder, '.labels.csv.0123456789ab.tmp'), 'partial');
       const dry = await recoverInterruptedApply(folder, { dryRun: true });
-      assert.deepEqual(dry.batches.map((b) => b.outcome), expected.outcome ? [expected.outcome] : []);
+      assert.deepEqual(
+        dry.batches.map((b) => b.outcome),
+        expected.outcome ? [expected.outcome] : [],
+      );
       if (expected.outcome) assert.deepEqual(dry.batches[0].files, { 'labels.csv': expected.labels, 'classes.json': expected.classes });
       assert.equal(await state(plan.labelsFile), expected.labels, 'a dry run writes nothing');
 
       const report = await recoverInterruptedApply(folder);
-      assert.deepEqual(report.batches.map((b) => b.outcome), expected.outcome ? [expected.outcome] : []);
+      assert.deepEqual(
+        report.batches.map((b) => b.outcome),
+        expected.outcome ? [expected.outcome] : [],
+      );
       const applied = expected.outcome !== 'had-not-been-applied' && step !== 'before-log-begin';
       assert.equal(await state(plan.labelsFile), applied ? 'new' : 'old');
       assert.equal(await state(plan.classesFile), applied ? 'new' : 'old');
       const settled = await readAppliedBatches(folder);
       assert.ok(settled.batches.every((b) => b.state !== 'interrupted'));
       assert.equal(effectiveEntries(settled).length, applied ? plan.changes.length : 0);
-      assert.deepEqual((await fs.readdir(folder)).filter((n) => n.endsWith('.tmp')), []);
+      assert.deepEqual(
+        (await fs.readdir(folder)).filter((n) => n.endsWith('.tmp')),
+        [],
+      );
       assert.deepEqual(report.removedTemporaryFiles, step === 'before-labels-rename' ? ['.labels.csv.0123456789ab.tmp'] : []);
 
       // Afterwards the decisions apply (again) cleanly: to the new state when recovery found the
@@ -86,13 +98,34 @@ describe('an apply interrupted at each step', () => {
     const folder = await copyDemo();
     const demo = await demoDecisions(folder);
     const plan = await planApply(folder, demo.file);
-    await assert.rejects(applyPlan(plan, { hooks: { step: (at) => { if (at === 'after-labels') throw new SimulatedCrash(at); } } }), SimulatedCrash);
+    await assert.rejects(
+      applyPlan(plan, {
+        hooks: {
+          step: (at) => {
+            if (at === 'after-labels') throw new SimulatedCrash(at);
+          },
+        },
+      }),
+      SimulatedCrash,
+    );
     await fs.appendFile(path.join(folder, 'labels.csv'), 'R002999,converter-fault\n');
     const report = await recoverInterruptedApply(folder);
-    assert.deepEqual(report.batches.map((b) => [b.outcome, b.files]), [['unresolved', { 'labels.csv': 'other', 'classes.json': 'old' }]]);
-    assert.deepEqual((await readAppliedBatches(folder)).batches.map((b) => b.state), ['interrupted']);
+    assert.deepEqual(
+      report.batches.map((b) => [b.outcome, b.files]),
+      [['unresolved', { 'labels.csv': 'other', 'classes.json': 'old' }]],
+    );
+    assert.deepEqual(
+      (await readAppliedBatches(folder)).batches.map((b) => b.state),
+      ['interrupted'],
+    );
     const abandoned = await recoverInterruptedApply(folder, { abandonUnresolved: true });
-    assert.deepEqual(abandoned.batches.map((b) => b.outcome), ['abandoned']);
-    assert.deepEqual((await readAppliedBatches(folder)).batches.map((b) => b.state), ['aborted']);
+    assert.deepEqual(
+      abandoned.batches.map((b) => b.outcome),
+      ['abandoned'],
+    );
+    assert.deepEqual(
+      (await readAppliedBatches(folder)).batches.map((b) => b.state),
+      ['aborted'],
+    );
   });
 });

@@ -44,7 +44,11 @@ describe('git without VS Code', () => {
     assert.equal(commit.commit, git(root, 'rev-parse', 'HEAD').trim());
     assert.equal(git(root, 'rev-list', '--count', `${headBefore}..HEAD`).trim(), '1');
     assert.equal(git(root, 'rev-parse', 'HEAD~1').trim(), headBefore);
-    assert.deepEqual(git(root, 'diff-tree', '--no-commit-id', '--name-only', '-r', 'HEAD').trim().split('\n').sort(), ['wind-farm/classes.json', 'wind-farm/label-log.jsonl', 'wind-farm/labels.csv']);
+    assert.deepEqual(git(root, 'diff-tree', '--no-commit-id', '--name-only', '-r', 'HEAD').trim().split('\n').sort(), [
+      'wind-farm/classes.json',
+      'wind-farm/label-log.jsonl',
+      'wind-farm/labels.csv',
+    ]);
     // git's own diff of labels.csv: one added line per changed node, one removed per node that had a label.
     const [added, removed] = git(root, 'diff', '--numstat', 'HEAD~1', 'HEAD', '--', 'wind-farm/labels.csv').split('\t').map(Number);
     assert.equal(added, plan.changes.length);
@@ -81,7 +85,13 @@ describe('git without VS Code', () => {
     git(root, 'rm', '--quiet', '--cached', 'wind-farm/label-log.jsonl');
     git(root, 'commit', '--quiet', '-m', 'untrack log');
     await fs.writeFile(path.join(root, '.gitignore'), '*.jsonl\n');
-    await fs.appendFile(path.join(folder, 'label-log.jsonl'), '{"time":"2025-01-01T00:00:00Z","node":"R000001","oldLabel":null,"newLabel":"x","reason":"test"}\n');
-    await assert.rejects(commitLabelFiles(folder, 'labels', options), (error: unknown) => error instanceof GitError && /wind-farm\/label-log.jsonl is ignored by git/.test(error.message));
+    await fs.appendFile(
+      path.join(folder, 'label-log.jsonl'),
+      '{"time":"2025-01-01T00:00:00Z","node":"R000001","oldLabel":null,"newLabel":"x","reason":"test"}\n',
+    );
+    await assert.rejects(
+      commitLabelFiles(folder, 'labels', options),
+      (error: unknown) => error instanceof GitError && /wind-farm\/label-log.jsonl is ignored by git/.test(error.message),
+    );
   });
 });

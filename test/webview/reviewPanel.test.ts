@@ -159,6 +159,7 @@ describe('webview/review panel (Chromium)', function () {
     mark = p.posted.length;
     await page.keyboard.press('c');
     await page.locator('#merge-candidate').waitFor();
+    await page.locator('#decision-form .form-title').click();
     await page.keyboard.press('Escape');
     await page.locator('#decision-form').waitFor({ state: 'hidden' });
     await page.keyboard.press('c');

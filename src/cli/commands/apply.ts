@@ -16,12 +16,22 @@ export const spec: CommandSpec = {
   summary: 'Apply a decisions file to labels.csv and classes.json, log every change, optionally commit with git.',
   positionals: [{ name: 'folder' }],
   flags: [
-    { name: 'decisions', value: 'FILE', description: 'The decisions file exported by the review panel (format: docs/decisions-format.md).' },
+    {
+      name: 'decisions',
+      value: 'FILE',
+      description: 'The decisions file exported by the review panel (format: docs/decisions-format.md).',
+    },
     { name: 'dry-run', description: 'Print what would change; write nothing.' },
     { name: 'commit', description: 'Commit the label files (and only them) with git after writing.' },
     { name: 'message', value: 'TEXT', description: 'Commit message instead of the generated one (with --commit).' },
-    { name: 'rebase', description: 'Apply even though the label files changed since the run the decisions were made on (every decision is checked again).' },
-    { name: 'recover', description: 'Settle an apply that was interrupted (finish it or mark it undone), then apply --decisions if given.' },
+    {
+      name: 'rebase',
+      description: 'Apply even though the label files changed since the run the decisions were made on (every decision is checked again).',
+    },
+    {
+      name: 'recover',
+      description: 'Settle an apply that was interrupted (finish it or mark it undone), then apply --decisions if given.',
+    },
   ],
   details:
     'Writes labels.csv and classes.json atomically and appends one line per changed node to label-log.jsonl. ' +
@@ -60,7 +70,9 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     io.stdout(formatPlanSummary(plan));
     io.stdout(listChanges(plan));
     if (plan.hasChanges && plan.baseConflicts.length > 0) {
-      io.stderr(`${new ConflictError(plan.baseConflicts).message.replace('nothing was written', dryRun ? 'an apply would write nothing' : 'nothing was written')}\n(or apply on the current files with --rebase)\n`);
+      io.stderr(
+        `${new ConflictError(plan.baseConflicts).message.replace('nothing was written', dryRun ? 'an apply would write nothing' : 'nothing was written')}\n(or apply on the current files with --rebase)\n`,
+      );
       return EXIT.failure;
     }
     if (dryRun || !plan.hasChanges) {
@@ -68,10 +80,16 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       return EXIT.ok;
     }
     const result = await applyPlan(plan);
-    io.stdout(`Wrote ${result.written.join(' and ')}; appended ${result.entries.length + 2} lines to ${plan.logFile.name} (batch ${result.batch}).\n`);
+    io.stdout(
+      `Wrote ${result.written.join(' and ')}; appended ${result.entries.length + 2} lines to ${plan.logFile.name} (batch ${result.batch}).\n`,
+    );
     if (!parsed.has('commit')) return EXIT.ok;
     const commit = await commitLabelFiles(folder, parsed.value('message') ?? labelCommitMessage(plan, result.batch));
-    io.stdout(commit ? `Committed ${commit.commit.slice(0, 12)}: ${commit.files.join(', ')}\n` : 'Nothing to commit: the label files match the last commit.\n');
+    io.stdout(
+      commit
+        ? `Committed ${commit.commit.slice(0, 12)}: ${commit.files.join(', ')}\n`
+        : 'Nothing to commit: the label files match the last commit.\n',
+    );
     return EXIT.ok;
   } catch (error) {
     if (error instanceof InvalidDecisionsError) {
@@ -96,7 +114,9 @@ export async function run(args: string[], io: CliIo): Promise<number> {
 
 function listChanges(plan: ApplyPlan): string {
   if (plan.changes.length === 0) return '';
-  const lines = plan.changes.slice(0, LISTED_CHANGES).map((c) => `  ${c.node}: ${c.oldLabel ?? '(none)'} → ${c.newLabel}  [${c.decisionId}]`);
+  const lines = plan.changes
+    .slice(0, LISTED_CHANGES)
+    .map((c) => `  ${c.node}: ${c.oldLabel ?? '(none)'} → ${c.newLabel}  [${c.decisionId}]`);
   if (plan.changes.length > LISTED_CHANGES) lines.push(`  … and ${plan.changes.length - LISTED_CHANGES} more`);
   return `\nChanged nodes:\n${lines.join('\n')}\n`;
 }

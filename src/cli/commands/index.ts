@@ -9,5 +9,6 @@ export const COMMANDS: Record<string, () => Promise<CommandModule>> = {
   apply: () => import('./apply'),
   score: () => import('./score'),
   evaluate: () => import('./evaluate'),
+  discover: () => import('./discover'),
   help: () => import('./help'),
 };

@@ -26,7 +26,16 @@ export type ApplyStep =
   | 'before-log-commit'
   | 'after-log-commit';
 
-export const APPLY_STEPS: readonly ApplyStep[] = ['before-log-begin', 'after-log-begin', 'before-labels-rename', 'after-labels', 'before-classes-rename', 'after-classes', 'before-log-commit', 'after-log-commit'];
+export const APPLY_STEPS: readonly ApplyStep[] = [
+  'before-log-begin',
+  'after-log-begin',
+  'before-labels-rename',
+  'after-labels',
+  'before-classes-rename',
+  'after-classes',
+  'before-log-commit',
+  'after-log-commit',
+];
 
 export interface ApplyHooks {
   /** Called at each step; a throw stops the apply there, leaving the files as a crash would. */
@@ -64,7 +73,8 @@ export async function applyPlan(plan: ApplyPlan, options: ApplyOptions = {}): Pr
   const conflicts: FileConflict[] = [...plan.baseConflicts];
   for (const file of [plan.labelsFile, plan.classesFile, { name: plan.logFile.name, path: plan.logFile.path }]) {
     const found = await fileHash(file.path);
-    if (found !== plan.readHashes[file.name]) conflicts.push({ file: file.name, expected: plan.readHashes[file.name] ?? null, found, since: 'plan' });
+    if (found !== plan.readHashes[file.name])
+      conflicts.push({ file: file.name, expected: plan.readHashes[file.name] ?? null, found, since: 'plan' });
   }
   if (conflicts.length > 0) throw new ConflictError(conflicts);
 
@@ -113,7 +123,14 @@ export async function applyPlan(plan: ApplyPlan, options: ApplyOptions = {}): Pr
     // A conflict found at the last moment: put back what this batch replaced and close it as
     // aborted. Any other failure is left as a crash would leave it, for recovery to settle.
     if (error instanceof ConflictError && (await restore(written))) {
-      await appendLines(plan.logFile.path, [formatBatchEnd({ batch, phase: 'abort', time: new Date().toISOString(), reason: `conflict: ${error.files.join(', ')} changed during the apply; nothing was changed` })]);
+      await appendLines(plan.logFile.path, [
+        formatBatchEnd({
+          batch,
+          phase: 'abort',
+          time: new Date().toISOString(),
+          reason: `conflict: ${error.files.join(', ')} changed during the apply; nothing was changed`,
+        }),
+      ]);
     }
     throw error;
   }

@@ -31,7 +31,9 @@ export class InterruptedApplyError extends Error {
     readonly logFile: string,
     readonly batches: string[],
   ) {
-    super(`an earlier apply was interrupted (${logFile}: batch ${batches.join(', ')}); recover it first (graph-curator apply <folder> --recover)`);
+    super(
+      `an earlier apply was interrupted (${logFile}: batch ${batches.join(', ')}); recover it first (graph-curator apply <folder> --recover)`,
+    );
     this.name = 'InterruptedApplyError';
   }
 }

@@ -97,7 +97,13 @@ export function formatBatchEnd(end: BatchEnd): string {
 
 /** A log entry of a batch: the LabelLogEntry keys in their fixed order, then "batch". */
 export function formatBatchedEntry(entry: LabelLogEntry, batch: string): string {
-  const ordered: Record<string, unknown> = { time: entry.time, node: entry.node, oldLabel: entry.oldLabel, newLabel: entry.newLabel, reason: entry.reason };
+  const ordered: Record<string, unknown> = {
+    time: entry.time,
+    node: entry.node,
+    oldLabel: entry.oldLabel,
+    newLabel: entry.newLabel,
+    reason: entry.reason,
+  };
   if (entry.decisionId !== undefined) ordered.decisionId = entry.decisionId;
   if (entry.runId !== undefined) ordered.runId = entry.runId;
   if (entry.settingsHash !== undefined) ordered.settingsHash = entry.settingsHash;
@@ -109,7 +115,8 @@ export function formatBatchedEntry(entry: LabelLogEntry, batch: string): string 
 export async function readBatchLog(filePath: string, file: string): Promise<BatchLogRead> {
   const read = await readTextFile(filePath, file);
   if (read.missing) return { batches: [], unbatchedEntries: [], problems: [], sha256: '', endsMidLine: false };
-  if ('problem' in read) return { batches: [], unbatchedEntries: [], problems: [read.problem], sha256: read.sha256 ?? '', endsMidLine: false };
+  if ('problem' in read)
+    return { batches: [], unbatchedEntries: [], problems: [read.problem], sha256: read.sha256 ?? '', endsMidLine: false };
   return { ...parseBatchLog(read.text, file), sha256: read.sha256 };
 }
 
@@ -129,7 +136,10 @@ export function parseBatchLog(text: string, file: string): Omit<BatchLogRead, 's
       if (typeof parsed !== 'object' || parsed === null || Array.isArray(parsed)) throw new Error('not an object');
       value = parsed as Record<string, unknown>;
     } catch {
-      problems.push({ ...at, message: k === lines.length - 1 ? 'incomplete last line (an append was cut short); it is ignored' : 'not a JSON object' });
+      problems.push({
+        ...at,
+        message: k === lines.length - 1 ? 'incomplete last line (an append was cut short); it is ignored' : 'not a JSON object',
+      });
       return;
     }
     const batchId = typeof value.batch === 'string' ? value.batch : undefined;

@@ -15,5 +15,7 @@ function canonicalJson(value: unknown): string {
 }
 
 export function decisionDigest(file: Pick<DecisionsFile, 'dataset' | 'runId'>, decision: Decision): string {
-  return createHash('sha256').update(canonicalJson({ dataset: file.dataset, runId: file.runId, decision })).digest('hex');
+  return createHash('sha256')
+    .update(canonicalJson({ dataset: file.dataset, runId: file.runId, decision }))
+    .digest('hex');
 }

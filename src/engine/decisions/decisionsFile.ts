@@ -44,8 +44,18 @@ export async function readDecisionsFile(filePath: string, file: string = filePat
     text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
-    const message = code === 'ENOENT' ? 'decisions file not found' : error instanceof TypeError ? 'invalid UTF-8: save the decisions file as UTF-8' : `cannot read the decisions file: ${(error as Error).message}`;
-    return { decisions: null, problems: [{ file, line: code === 'ENOENT' ? 0 : 1, column: code === 'ENOENT' ? 0 : 1, message }], file, locate: NO_POSITIONS };
+    const message =
+      code === 'ENOENT'
+        ? 'decisions file not found'
+        : error instanceof TypeError
+          ? 'invalid UTF-8: save the decisions file as UTF-8'
+          : `cannot read the decisions file: ${(error as Error).message}`;
+    return {
+      decisions: null,
+      problems: [{ file, line: code === 'ENOENT' ? 0 : 1, column: code === 'ENOENT' ? 0 : 1, message }],
+      file,
+      locate: NO_POSITIONS,
+    };
   }
   return parseDecisionsText(text, file);
 }
@@ -81,7 +91,9 @@ function locatorOf(root: JsonNode): DecisionLocator {
 
 /** "decision #4 (d-0004, merge-into-class)": indices are 1-based in messages, as in editors. */
 export function describeDecision(index: number, decision: { id?: unknown; kind?: unknown }): string {
-  const parts = [typeof decision.id === 'string' ? decision.id : null, typeof decision.kind === 'string' ? decision.kind : null].filter((p) => p !== null);
+  const parts = [typeof decision.id === 'string' ? decision.id : null, typeof decision.kind === 'string' ? decision.kind : null].filter(
+    (p) => p !== null,
+  );
   return `decision #${index + 1}${parts.length ? ` (${parts.join(', ')})` : ''}`;
 }
 
@@ -93,14 +105,26 @@ const textOrNull: Check = (v) => (v === null || typeof v === 'string' ? null : '
 const isoTime: Check = (v) => (typeof v === 'string' && !Number.isNaN(Date.parse(v)) ? null : 'must be an ISO-8601 time');
 
 function nameList(minimum: number): Check {
-  return (v) => (Array.isArray(v) && v.length >= minimum ? null : `must be an array of at least ${minimum} node or candidate id${minimum === 1 ? '' : 's'}`);
+  return (v) =>
+    Array.isArray(v) && v.length >= minimum
+      ? null
+      : `must be an array of at least ${minimum} node or candidate id${minimum === 1 ? '' : 's'}`;
 }
 
 /** Required fields of each kind beyond id, kind, madeAt, note; arrays are checked item by item. */
 const KIND_FIELDS: { [K in DecisionKind]: Record<string, { check: Check; optional?: boolean; items?: 'name' | 'nameList' }> } = {
-  'name-new-class': { candidateId: { check: name }, members: { check: nameList(1), items: 'name' }, className: { check: name }, description: { check: text } },
+  'name-new-class': {
+    candidateId: { check: name },
+    members: { check: nameList(1), items: 'name' },
+    className: { check: name },
+    description: { check: text },
+  },
   'merge-into-class': { candidateId: { check: name }, members: { check: nameList(1), items: 'name' }, className: { check: name } },
-  'move-members': { members: { check: nameList(1), items: 'name' }, className: { check: name }, description: { check: text, optional: true } },
+  'move-members': {
+    members: { check: nameList(1), items: 'name' },
+    className: { check: name },
+    description: { check: text, optional: true },
+  },
   'merge-classes': { from: { check: name }, into: { check: name } },
   'merge-candidates': { candidateIds: { check: nameList(2), items: 'name' }, resultId: { check: name } },
   'split-candidate': { candidateId: { check: name }, parts: { check: nameList(2), items: 'nameList' } },
@@ -126,7 +150,8 @@ export function decisionsShapeProblems(value: unknown, file: string, locate: Dec
     return problems;
   }
   if (value.format !== DECISIONS_FORMAT) problem(['format'], `"format" must be "${DECISIONS_FORMAT}"`);
-  if (value.version !== DECISIONS_VERSION) problem(['version'], `"version" must be ${DECISIONS_VERSION} (this tool reads version ${DECISIONS_VERSION})`);
+  if (value.version !== DECISIONS_VERSION)
+    problem(['version'], `"version" must be ${DECISIONS_VERSION} (this tool reads version ${DECISIONS_VERSION})`);
   const top: [string, Check][] = [
     ['dataset', name],
     ['runId', textOrNull],
@@ -137,8 +162,12 @@ export function decisionsShapeProblems(value: unknown, file: string, locate: Dec
     const why = key in value ? check(value[key]) : 'is missing';
     if (why) problem(key in value ? [key] : [], `"${key}" ${why}`);
   }
-  if (!isRecord(value.baseHashes)) problem(['baseHashes'], '"baseHashes" must be an object of sha256 hex strings by file name (may be empty)');
-  else for (const [key, hash] of Object.entries(value.baseHashes)) if (typeof hash !== 'string' || !/^[0-9a-f]{64}$/.test(hash)) problem(['baseHashes', key], `"baseHashes.${key}" must be a sha256 hex string`);
+  if (!isRecord(value.baseHashes))
+    problem(['baseHashes'], '"baseHashes" must be an object of sha256 hex strings by file name (may be empty)');
+  else
+    for (const [key, hash] of Object.entries(value.baseHashes))
+      if (typeof hash !== 'string' || !/^[0-9a-f]{64}$/.test(hash))
+        problem(['baseHashes', key], `"baseHashes.${key}" must be a sha256 hex string`);
   if (!Array.isArray(value.decisions)) {
     problem(['decisions'], '"decisions" must be an array');
     return problems;

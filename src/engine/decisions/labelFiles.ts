@@ -42,7 +42,9 @@ export function sha256OfText(text: string): string {
 /** sha256 of a file's bytes, or null when it does not exist. */
 export async function fileHash(filePath: string): Promise<string | null> {
   try {
-    return createHash('sha256').update(await fs.readFile(filePath)).digest('hex');
+    return createHash('sha256')
+      .update(await fs.readFile(filePath))
+      .digest('hex');
   } catch (error) {
     if ((error as NodeJS.ErrnoException).code === 'ENOENT') return null;
     throw error;
@@ -61,7 +63,9 @@ async function readOptionalText(filePath: string): Promise<{ text: string; sha25
   return { text: new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes), sha256: createHash('sha256').update(bytes).digest('hex') };
 }
 
-export async function labelFileNamesOf(folder: string): Promise<{ manifest: DatasetManifest; names: LabelFileNames; paths: LabelFileNames }> {
+export async function labelFileNamesOf(
+  folder: string,
+): Promise<{ manifest: DatasetManifest; names: LabelFileNames; paths: LabelFileNames }> {
   const absolute = path.resolve(folder);
   const read = await readManifest(absolute);
   if (!read.manifest) throw new DatasetError(read.problems);
@@ -85,7 +89,8 @@ export async function readLabelFiles(folder: string): Promise<LabelFilesSnapshot
     const read = await readLabelsCsv(paths.labels, names.labels);
     if (read.problems.length > 0) throw new DatasetError(read.problems);
     // The reader read the file again: if the bytes differ, someone is writing it right now.
-    if (read.sha256 !== labelsRaw.sha256) throw new ConflictError([{ file: names.labels, expected: labelsRaw.sha256, found: read.sha256, since: 'plan' }]);
+    if (read.sha256 !== labelsRaw.sha256)
+      throw new ConflictError([{ file: names.labels, expected: labelsRaw.sha256, found: read.sha256, since: 'plan' }]);
     labels = read.labels;
   }
 

@@ -6,7 +6,15 @@ import type { ClassRecord, ClassStatus, LabelLogEntry, LocatedProblem } from '..
 import { compareCodeUnits, formatLabelsCsv } from '../dataset/labelsFile';
 import { formatClassesJson } from '../dataset/classesFile';
 import type { DecisionKind, DecisionsFile } from './types';
-import { decisionsShapeProblems, describeDecision, InvalidDecisionsError, nodeReferences, NO_POSITIONS, type DecisionLocator, type JsonPath } from './decisionsFile';
+import {
+  decisionsShapeProblems,
+  describeDecision,
+  InvalidDecisionsError,
+  nodeReferences,
+  NO_POSITIONS,
+  type DecisionLocator,
+  type JsonPath,
+} from './decisionsFile';
 import { decisionDigest } from './decisionDigest';
 import { readLabelFiles, sha256OfText, type LabelFilesSnapshot } from './labelFiles';
 import { readNodeIds } from './nodeIds';
@@ -114,7 +122,11 @@ export async function planApply(folder: string, decisions: DecisionsFile, option
 
   const snapshot = await readLabelFiles(folder);
   const interrupted = snapshot.log.batches.filter((b) => b.state === 'interrupted');
-  if (interrupted.length > 0) throw new InterruptedApplyError(snapshot.names.log, interrupted.map((b) => b.begin.batch));
+  if (interrupted.length > 0)
+    throw new InterruptedApplyError(
+      snapshot.names.log,
+      interrupted.map((b) => b.begin.batch),
+    );
   const nodeIds = await readNodeIds(snapshot.folder, snapshot.manifest);
 
   const plannedAt = (options.now ?? new Date()).toISOString();
@@ -186,7 +198,10 @@ export async function planApply(folder: string, decisions: DecisionsFile, option
  */
 function baseConflictsOf(decisions: DecisionsFile, snapshot: LabelFilesSnapshot): FileConflict[] {
   if (Object.keys(decisions.baseHashes).length === 0) return [];
-  const ownBatches = snapshot.log.batches.filter((b) => b.state === 'committed' && decisions.runId !== null && b.begin.runId === decisions.runId && b.begin.dataset === decisions.dataset);
+  const ownBatches = snapshot.log.batches.filter(
+    (b) =>
+      b.state === 'committed' && decisions.runId !== null && b.begin.runId === decisions.runId && b.begin.dataset === decisions.dataset,
+  );
   const conflicts: FileConflict[] = [];
   for (const name of [snapshot.names.labels, snapshot.names.classes]) {
     const expected = decisions.baseHashes[name] ?? null;
@@ -217,7 +232,12 @@ interface Evaluation {
 }
 
 /** Runs the decisions in order over a copy of the labels and classes, collecting every problem. */
-function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapshot, nodeIds: Set<string>, where: { source: string; locate: DecisionLocator }): Evaluation {
+function evaluateDecisions(
+  decisions: DecisionsFile,
+  snapshot: LabelFilesSnapshot,
+  nodeIds: Set<string>,
+  where: { source: string; locate: DecisionLocator },
+): Evaluation {
   const problems: LocatedProblem[] = [];
   const labels = new Map(snapshot.labels);
   const classes = snapshot.classes.map((c) => ({ ...c }));
@@ -234,7 +254,11 @@ function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapsho
   const appliedDigests = new Set(snapshot.log.batches.filter((b) => b.state === 'committed').flatMap((b) => b.begin.decisionDigests ?? []));
 
   if (decisions.dataset !== snapshot.manifest.name) {
-    problems.push({ file: where.source, ...where.locate(['dataset']), message: `the decisions are for dataset "${decisions.dataset}", but ${snapshot.folder} holds "${snapshot.manifest.name}"` });
+    problems.push({
+      file: where.source,
+      ...where.locate(['dataset']),
+      message: `the decisions are for dataset "${decisions.dataset}", but ${snapshot.folder} holds "${snapshot.manifest.name}"`,
+    });
   }
 
   decisions.decisions.forEach((decision, index) => {
@@ -242,7 +266,15 @@ function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapsho
     const problem = (at: JsonPath, message: string): void => {
       problems.push({ file: where.source, ...where.locate(['decisions', index, ...at]), message: `${who}: ${message}` });
     };
-    const outcome: DecisionOutcome = { index, id: decision.id, kind: decision.kind, relabelled: 0, alreadyLabelled: 0, appliedBefore: appliedDigests.has(decisionDigest(decisions, decision)), reviewOnly: REVIEW_ONLY.has(decision.kind) };
+    const outcome: DecisionOutcome = {
+      index,
+      id: decision.id,
+      kind: decision.kind,
+      relabelled: 0,
+      alreadyLabelled: 0,
+      appliedBefore: appliedDigests.has(decisionDigest(decisions, decision)),
+      reviewOnly: REVIEW_ONLY.has(decision.kind),
+    };
     outcomes.push(outcome);
 
     const earlier = firstIndexOfId.get(decision.id);
@@ -264,7 +296,11 @@ function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapsho
       const record = classByName.get(name);
       if (record?.status === 'merged') problem(at, `class "${name}" is merged into "${record.mergedInto}": use "${record.mergedInto}"`);
       else if (record?.status === 'retired') problem(at, `class "${name}" is retired`);
-      else if (!classExists(name)) problem(at, `no class "${name}" (not in ${snapshot.names.classes}, not used in ${snapshot.names.labels}, not named by an earlier decision)`);
+      else if (!classExists(name))
+        problem(
+          at,
+          `no class "${name}" (not in ${snapshot.names.classes}, not used in ${snapshot.names.labels}, not named by an earlier decision)`,
+        );
       else return true;
       return false;
     };
@@ -293,7 +329,10 @@ function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapsho
         seen.add(node);
         const previous = assignedBy.get(node);
         if (previous && previous.className !== className && !overrides) {
-          problem(['members', k], `node "${node}" is given "${previous.className}" by decision #${previous.index + 1} (${decisions.decisions[previous.index].id}) and "${className}" here`);
+          problem(
+            ['members', k],
+            `node "${node}" is given "${previous.className}" by decision #${previous.index + 1} (${decisions.decisions[previous.index].id}) and "${className}" here`,
+          );
           return;
         }
         assignedBy.set(node, { index, className });
@@ -307,20 +346,41 @@ function evaluateDecisions(decisions: DecisionsFile, snapshot: LabelFilesSnapsho
       });
     };
 
-    const reasonOr = (generated: string): string => (decision.note !== undefined && decision.note.trim() !== '' ? decision.note : generated);
+    const reasonOr = (generated: string): string =>
+      decision.note !== undefined && decision.note.trim() !== '' ? decision.note : generated;
     switch (decision.kind) {
       case 'name-new-class':
-        if (registerClass(decision.className, decision.description, ['className'])) labelMembers(decision.members, decision.className, reasonOr(`new class "${decision.className}" named from candidate ${decision.candidateId}`), false);
+        if (registerClass(decision.className, decision.description, ['className']))
+          labelMembers(
+            decision.members,
+            decision.className,
+            reasonOr(`new class "${decision.className}" named from candidate ${decision.candidateId}`),
+            false,
+          );
         break;
       case 'merge-into-class':
-        if (checkTarget(decision.className, ['className'])) labelMembers(decision.members, decision.className, reasonOr(`candidate ${decision.candidateId} merged into class "${decision.className}"`), false);
+        if (checkTarget(decision.className, ['className']))
+          labelMembers(
+            decision.members,
+            decision.className,
+            reasonOr(`candidate ${decision.candidateId} merged into class "${decision.className}"`),
+            false,
+          );
         break;
       case 'move-members': {
         // As in the review panel: a description creates the class, none moves into an existing one.
         const isNew = decision.description !== undefined;
-        const ok = isNew ? registerClass(decision.className, decision.description ?? '', ['className']) : checkTarget(decision.className, ['className']);
+        const ok = isNew
+          ? registerClass(decision.className, decision.description ?? '', ['className'])
+          : checkTarget(decision.className, ['className']);
         // A move is how the panel records a correction of an earlier decision: it may override it.
-        if (ok) labelMembers(decision.members, decision.className, reasonOr(`moved to ${isNew ? 'new ' : ''}class "${decision.className}"`), true);
+        if (ok)
+          labelMembers(
+            decision.members,
+            decision.className,
+            reasonOr(`moved to ${isNew ? 'new ' : ''}class "${decision.className}"`),
+            true,
+          );
         break;
       }
       case 'merge-classes': {
@@ -366,7 +426,19 @@ function classCounts(snapshot: LabelFilesSnapshot, outcome: Evaluation): ClassCo
   const registered = new Set(outcome.classes.map((c) => c.name));
   const unregistered = [...new Set([...before.keys(), ...after.keys()])].filter((name) => !registered.has(name)).sort(compareCodeUnits);
   return [
-    ...outcome.classes.map((c) => ({ name: c.name, before: before.get(c.name) ?? 0, after: after.get(c.name) ?? 0, status: c.status, added: added.has(c.name) })),
-    ...unregistered.map((name) => ({ name, before: before.get(name) ?? 0, after: after.get(name) ?? 0, status: 'unregistered' as const, added: false })),
+    ...outcome.classes.map((c) => ({
+      name: c.name,
+      before: before.get(c.name) ?? 0,
+      after: after.get(c.name) ?? 0,
+      status: c.status,
+      added: added.has(c.name),
+    })),
+    ...unregistered.map((name) => ({
+      name,
+      before: before.get(name) ?? 0,
+      after: after.get(name) ?? 0,
+      status: 'unregistered' as const,
+      added: false,
+    })),
   ];
 }

@@ -75,9 +75,15 @@ export async function recoverInterruptedApply(folder: string, options: RecoveryO
     const states = Object.values(files);
     const base = { batch: batch.begin.batch, line: batch.line, files };
     const close = async (phase: 'commit' | 'abort', reason: string): Promise<void> => {
-      if (!options.dryRun) await appendLines(paths.log, [formatBatchEnd({ batch: batch.begin.batch, phase, time: (options.now ?? new Date()).toISOString(), reason, recovered: true })]);
+      if (!options.dryRun)
+        await appendLines(paths.log, [
+          formatBatchEnd({ batch: batch.begin.batch, phase, time: (options.now ?? new Date()).toISOString(), reason, recovered: true }),
+        ]);
     };
-    const list = (state: FileState): string => Object.keys(files).filter((n) => files[n] === state).join(', ');
+    const list = (state: FileState): string =>
+      Object.keys(files)
+        .filter((n) => files[n] === state)
+        .join(', ');
 
     if (states.includes('other')) {
       const message = `${list('other')} matches neither its content before nor after batch ${batch.begin.batch} (changed by someone else)`;
@@ -89,12 +95,20 @@ export async function recoverInterruptedApply(folder: string, options: RecoveryO
     }
     if (states.every((s) => s === 'new')) {
       await close('commit', 'recovered: every file had reached its new content');
-      report.batches.push({ ...base, outcome: 'had-been-applied', message: `batch ${batch.begin.batch} had been written completely; marked committed` });
+      report.batches.push({
+        ...base,
+        outcome: 'had-been-applied',
+        message: `batch ${batch.begin.batch} had been written completely; marked committed`,
+      });
       continue;
     }
     if (states.every((s) => s === 'old')) {
       await close('abort', 'recovered: no file had been replaced');
-      report.batches.push({ ...base, outcome: 'had-not-been-applied', message: `batch ${batch.begin.batch} had replaced no file; marked aborted (its ${batch.entries.length} log entries never took effect)` });
+      report.batches.push({
+        ...base,
+        outcome: 'had-not-been-applied',
+        message: `batch ${batch.begin.batch} had replaced no file; marked aborted (its ${batch.entries.length} log entries never took effect)`,
+      });
       continue;
     }
     const rebuilt = new Map<string, string>();
@@ -113,7 +127,11 @@ export async function recoverInterruptedApply(folder: string, options: RecoveryO
     }
     if (!options.dryRun) for (const [name, text] of rebuilt) await writeFileAtomic(pathOf(name), text);
     await close('commit', `recovered: completed ${[...rebuilt.keys()].join(', ')}`);
-    report.batches.push({ ...base, outcome: 'completed', message: `batch ${batch.begin.batch} had replaced ${list('new')}; wrote ${[...rebuilt.keys()].join(', ')} and marked it committed` });
+    report.batches.push({
+      ...base,
+      outcome: 'completed',
+      message: `batch ${batch.begin.batch} had replaced ${list('new')}; wrote ${[...rebuilt.keys()].join(', ')} and marked it committed`,
+    });
   }
   if (!options.dryRun) report.removedTemporaryFiles = await removeTemporaryFiles([paths.labels, paths.classes]);
   return report;

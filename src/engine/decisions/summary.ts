@@ -20,10 +20,15 @@ export function formatPlanSummary(plan: ApplyPlan): string {
   const lines: string[] = [];
   const labelling = plan.outcomes.filter((o) => !o.reviewOnly).length;
   const reviewOnly = Object.entries(plan.reviewOnly).map(([kind, n]) => `${n} ${kind}`);
-  lines.push(`Decisions: ${plan.outcomes.length} from ${plan.source} (${labelling} labelling${reviewOnly.length ? `; review-only, no label change: ${reviewOnly.join(', ')}` : ''})`);
+  lines.push(
+    `Decisions: ${plan.outcomes.length} from ${plan.source} (${labelling} labelling${reviewOnly.length ? `; review-only, no label change: ${reviewOnly.join(', ')}` : ''})`,
+  );
   const alreadyLabelled = plan.outcomes.reduce((sum, o) => sum + o.alreadyLabelled, 0);
-  lines.push(`Nodes changed: ${plan.changes.length}${alreadyLabelled ? ` (${plural(alreadyLabelled, 'member')} already had the label)` : ''}`);
-  for (const c of plan.classesAdded) lines.push(`New class: ${c.name} (introduced in ${c.introducedIn})${c.description ? ` — ${c.description}` : ''}`);
+  lines.push(
+    `Nodes changed: ${plan.changes.length}${alreadyLabelled ? ` (${plural(alreadyLabelled, 'member')} already had the label)` : ''}`,
+  );
+  for (const c of plan.classesAdded)
+    lines.push(`New class: ${c.name} (introduced in ${c.introducedIn})${c.description ? ` — ${c.description}` : ''}`);
   for (const m of plan.classesMerged) lines.push(`Merged class: ${m.from} → ${m.into}`);
   lines.push('', 'Labels per class (before → after):');
   const width = Math.max(...plan.counts.map((c) => c.name.length), 5);
@@ -43,12 +48,18 @@ const SUBJECT_LIMIT = 72;
 
 export function labelCommitMessage(plan: ApplyPlan, batch: string | null = null): string {
   const parts: string[] = [];
-  if (plan.classesAdded.length > 0) parts.push(`+${plural(plan.classesAdded.length, 'class', 'classes')} (${plan.classesAdded.map((c) => c.name).join(', ')})`);
-  if (plan.classesMerged.length > 0) parts.push(`${plan.classesMerged.length} merged (${plan.classesMerged.map((m) => `${m.from} → ${m.into}`).join(', ')})`);
+  if (plan.classesAdded.length > 0)
+    parts.push(`+${plural(plan.classesAdded.length, 'class', 'classes')} (${plan.classesAdded.map((c) => c.name).join(', ')})`);
+  if (plan.classesMerged.length > 0)
+    parts.push(`${plan.classesMerged.length} merged (${plan.classesMerged.map((m) => `${m.from} → ${m.into}`).join(', ')})`);
   parts.push(`${plural(plan.changes.length, 'node')} changed`);
   let subject = `Labels: ${parts.join(', ')}`;
   if (subject.length > SUBJECT_LIMIT) {
-    const short = [plan.classesAdded.length ? `+${plural(plan.classesAdded.length, 'class', 'classes')}` : '', plan.classesMerged.length ? `${plan.classesMerged.length} merged` : '', `${plural(plan.changes.length, 'node')} changed`].filter(Boolean);
+    const short = [
+      plan.classesAdded.length ? `+${plural(plan.classesAdded.length, 'class', 'classes')}` : '',
+      plan.classesMerged.length ? `${plan.classesMerged.length} merged` : '',
+      `${plural(plan.changes.length, 'node')} changed`,
+    ].filter(Boolean);
     subject = `Labels: ${short.join(', ')}`;
   }
   const body: string[] = [];

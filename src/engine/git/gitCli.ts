@@ -47,18 +47,31 @@ interface GitRun {
 }
 
 /** Runs git in `cwd`; exit codes other than 0 (and those in `allowedExitCodes`) throw a GitError. */
-export function runGit(args: readonly string[], cwd: string, options: GitOptions = {}, allowedExitCodes: readonly number[] = []): Promise<GitRun> {
+export function runGit(
+  args: readonly string[],
+  cwd: string,
+  options: GitOptions = {},
+  allowedExitCodes: readonly number[] = [],
+): Promise<GitRun> {
   const git = options.git ?? 'git';
   // No prompts, no editor: a command that would need a person fails instead of hanging.
   const env = { ...process.env, GIT_TERMINAL_PROMPT: '0', GIT_EDITOR: 'true', ...options.env };
   return new Promise((resolve, reject) => {
     execFile(git, args, { cwd, env, maxBuffer: 64 * 1024 * 1024, encoding: 'utf8', windowsHide: true }, (error, stdout, stderr) => {
       if (!error) return resolve({ stdout, stderr, exitCode: 0 });
-      const code = (error as NodeJS.ErrnoException).code;
+      // execFile's error.code is the exit code (a number), or a system error name such as ENOENT.
+      const code = (error as { code?: unknown }).code;
       if (code === 'ENOENT') return reject(new GitNotFoundError(git));
       const exitCode = typeof code === 'number' ? code : null;
       if (exitCode !== null && allowedExitCodes.includes(exitCode)) return resolve({ stdout, stderr, exitCode });
-      reject(new GitError(`git ${args.join(' ')} failed${exitCode !== null ? ` (exit ${exitCode})` : ''}: ${stderr.trim() || error.message}`, args, exitCode, stderr));
+      reject(
+        new GitError(
+          `git ${args.join(' ')} failed${exitCode !== null ? ` (exit ${exitCode})` : ''}: ${stderr.trim() || error.message}`,
+          args,
+          exitCode,
+          stderr,
+        ),
+      );
     });
   });
 }
@@ -95,7 +108,8 @@ async function repositoryPaths(root: string, files: readonly string[]): Promise<
     // The root is a real path; the file's folder must be too (e.g. /tmp may be a symlink).
     const real = path.join(await fs.realpath(path.dirname(file)), path.basename(file));
     const relative = path.relative(root, real);
-    if (relative.startsWith('..') || path.isAbsolute(relative)) throw new GitError(`${file} is outside the repository at ${root}`, [], null, '');
+    if (relative.startsWith('..') || path.isAbsolute(relative))
+      throw new GitError(`${file} is outside the repository at ${root}`, [], null, '');
     out.push(relative.split(path.sep).join('/'));
   }
   return out;
@@ -107,20 +121,39 @@ const splitZ = (text: string): string[] => text.split('\0').filter((s) => s.leng
  * Commits exactly the given files (absolute paths) with `message`; returns null when none of them
  * differs from the last commit. Other changes, staged or not, stay as they were.
  */
-export async function commitFiles(folder: string, files: readonly string[], message: string, options: GitOptions = {}): Promise<LabelCommit | null> {
+export async function commitFiles(
+  folder: string,
+  files: readonly string[],
+  message: string,
+  options: GitOptions = {},
+): Promise<LabelCommit | null> {
   const root = await findRepositoryRoot(folder, options);
   if (root === null) throw new NotInRepositoryError(folder);
   const wanted = await repositoryPaths(root, files);
   const git = (args: string[], allowed: number[] = []): Promise<GitRun> => runGit(['--literal-pathspecs', ...args], root, options, allowed);
 
   const tracked = new Set(splitZ((await git(['ls-files', '-z', '--', ...wanted])).stdout));
-  const present = await Promise.all(files.map((f) => fs.stat(f).then((s) => s.isFile(), () => false)));
+  const present = await Promise.all(
+    files.map((f) =>
+      fs.stat(f).then(
+        (s) => s.isFile(),
+        () => false,
+      ),
+    ),
+  );
   const paths = wanted.filter((p, k) => present[k] || tracked.has(p));
   if (paths.length === 0) return null;
   const ignored: string[] = [];
   // check-ignore takes plain paths (it refuses the literal-pathspec flag).
-  for (const p of paths.filter((p) => !tracked.has(p))) if ((await runGit(['check-ignore', '--quiet', '--', p], root, options, [1])).exitCode === 0) ignored.push(p);
-  if (ignored.length > 0) throw new GitError(`${ignored.join(', ')} ${ignored.length === 1 ? 'is' : 'are'} ignored by git (.gitignore): label files must be committed`, ['check-ignore'], 0, '');
+  for (const p of paths.filter((p) => !tracked.has(p)))
+    if ((await runGit(['check-ignore', '--quiet', '--', p], root, options, [1])).exitCode === 0) ignored.push(p);
+  if (ignored.length > 0)
+    throw new GitError(
+      `${ignored.join(', ')} ${ignored.length === 1 ? 'is' : 'are'} ignored by git (.gitignore): label files must be committed`,
+      ['check-ignore'],
+      0,
+      '',
+    );
 
   await git(['add', '--', ...paths]);
   // Against HEAD, or against nothing on a branch without commits yet.

@@ -56,6 +56,7 @@ export async function trainDenseNetwork(
   timings: Record<string, number>,
   progress: ProgressSink,
   cancel: CancelSignal | undefined,
+  parallel?: boolean,
 ): Promise<DenseTrainingResult> {
   const started = performance.now();
   const rowCount = train.nodeIndex.length;
@@ -69,12 +70,11 @@ export async function trainDenseNetwork(
   if (rowCount > 0 && settings.epochs > 0) {
     const targets = oneHotTargets(train.classIndex, classCount);
     const posWeight = positiveWeights(train.classIndex, classCount);
-    const parallel = rowCount * inputDim >= parallelTrainingThreshold;
     const report = (epoch: number, loss: number) => {
       lossHistory.push(loss);
       progress.report('train', (epoch + 1) / settings.epochs);
     };
-    if (parallel) {
+    if (parallel ?? rowCount * inputDim >= parallelTrainingThreshold) {
       const sharedInputs = gatherRows(features, inputDim, train.nodeIndex, sharedFloats(rowCount * inputDim));
       const withDropout = settings.dropout > 0;
       const training = await ParallelDenseTraining.start(sharedInputs, rowCount, inputDim, targets, posWeight, settings.hiddenUnits, parallelShardCount, withDropout);

@@ -18,6 +18,12 @@ export interface TrainOptions {
   precomputed?: PropagatedFeatures;
   progress?: ProgressSink;
   cancel?: CancelSignal;
+  /**
+   * mlp/sign only: split each training step over two worker threads. Default: when training
+   * rows × input columns reach parallelTrainingThreshold (a function of the problem only, so a
+   * seed gives the same result on every machine).
+   */
+  parallel?: boolean;
 }
 
 export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, settings: ModelSettings, options: TrainOptions = {}): Promise<ModelOutput> {
@@ -44,7 +50,7 @@ export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, s
   const result =
     kind === 'gcn' || kind === 'sage'
       ? await trainGraphNetwork(kind, inputs, train, settings, weights, random, timings, progress, options.cancel)
-      : await trainDenseNetwork(modelInput, inputs.nodeCount, inputDim, train, settings, weights, random, timings, progress, options.cancel);
+      : await trainDenseNetwork(modelInput, inputs.nodeCount, inputDim, train, settings, weights, random, timings, progress, options.cancel, options.parallel);
   return {
     logits: result.logits,
     classCount,

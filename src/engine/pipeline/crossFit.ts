@@ -3,7 +3,7 @@
 // fitted on the training outputs themselves they sit near 1 once a model memorises its few
 // labelled nodes, and then most unseen nodes of known classes are rejected.
 import { trainAndPredict } from '../models/train';
-import type { GraphInputs, ModelSettings, PropagatedFeatures } from '../models/types';
+import type { GraphInputs, ModelSettings, PropagatedFeatures, TrainingSet } from '../models/types';
 import { sigmoid } from '../scoring/sigmoid';
 import type { CancelSignal, ProgressSink } from '../util/progress';
 import { throwIfCancelled } from '../util/progress';
@@ -39,6 +39,18 @@ export interface CrossFitRequest {
   precomputed?: PropagatedFeatures;
   progress?: ProgressSink;
   cancel?: CancelSignal;
+  /** Called once per fold after its model is trained: lets a check see exactly what each fold trained on. */
+  observeFold?: (fold: FoldObservation) => void;
+}
+
+export interface FoldObservation {
+  fold: number;
+  /** The training set the fold's model was given. */
+  training: TrainingSet;
+  /** Rows (indices into trainLocal) this fold's model scored. */
+  heldOutRows: Int32Array;
+  /** The fold model's logits for every node of the inputs. */
+  logits: Float32Array;
 }
 
 /** trainCount × classCount sigmoid outputs, row i = training node i scored by the model of the other folds. */
@@ -53,12 +65,18 @@ export async function outOfFoldProbabilities(request: CrossFitRequest): Promise<
     const held: number[] = [];
     fold.forEach((k, i) => (k === f ? held : keep).push(i));
     if (held.length === 0 || keep.length === 0) continue;
+    const training: TrainingSet = {
+      nodeIndex: Int32Array.from(keep, (i) => trainLocal[i]),
+      classIndex: Int32Array.from(keep, (i) => trainClass[i]),
+      classCount,
+    };
     const output = await trainAndPredict(
       request.inputs,
-      { nodeIndex: Int32Array.from(keep, (i) => trainLocal[i]), classIndex: Int32Array.from(keep, (i) => trainClass[i]), classCount },
+      training,
       { ...request.settings, seed: request.settings.seed + 101 * (f + 1) },
       { precomputed: request.precomputed, cancel: request.cancel },
     );
+    request.observeFold?.({ fold: f, training, heldOutRows: Int32Array.from(held), logits: output.logits });
     for (const i of held) {
       const node = trainLocal[i];
       result.set(sigmoid(output.logits.subarray(node * classCount, (node + 1) * classCount)), i * classCount);

@@ -66,6 +66,16 @@ export interface EvaluateOptions {
   compareColdStart: boolean;
   progress?: ProgressSink;
   cancel?: CancelSignal;
+  /** Prefix graphs and SIGN propagation shared across calls on the same dataset (a settings sweep computes each once). */
+  cache?: PrefixCache;
+  /** Fit only these slice indices (default every slice); the others get empty metrics and matrix rows. */
+  onlySlices?: readonly number[];
+}
+
+/** Work that depends only on the dataset, never on the settings: reusable across evaluateSlices calls. */
+export interface PrefixCache {
+  prefixes?: PrefixGraph[];
+  propagated: Map<number, PropagatedFeatures>;
 }
 
 /** Labels used for training: with a truth file every curated label; without one the same labels, each slice tested on its own. */
@@ -177,6 +187,10 @@ function sliceMetrics(ctx: ChainContext, fit: PrefixFit, settings: RunSettings):
   };
 }
 
+function emptySliceMetrics(slice: string): SliceMetrics {
+  return { slice, trainingNodes: 0, testNodes: 0, unseenTestNodes: 0, accuracy: null, macroF1: null, openSetMacroF1: null, noveltyAuroc: null, rejectionRate: 0, trainSeconds: 0 };
+}
+
 async function evaluateChain(ctx: ChainContext, settings: RunSettings, stageName: string): Promise<{ metrics: SliceMetrics[]; matrix: (number | null)[][] }> {
   const { dataset } = ctx;
   const sliceCount = dataset.slices.length;
@@ -186,6 +200,11 @@ async function evaluateChain(ctx: ChainContext, settings: RunSettings, stageName
   for (let i = 0; i < sliceCount; i++) {
     throwIfCancelled(ctx.options.cancel);
     ctx.options.progress?.report(stageName, i / sliceCount);
+    if (ctx.options.onlySlices && !ctx.options.onlySlices.includes(i)) {
+      metrics.push(emptySliceMetrics(dataset.slices[i].key));
+      matrix.push(new Array<number | null>(sliceCount).fill(null));
+      continue;
+    }
     let fit: PrefixFit;
     try {
       fit = await fitSlice(dataset, settings, i, {
@@ -198,7 +217,7 @@ async function evaluateChain(ctx: ChainContext, settings: RunSettings, stageName
       });
     } catch (error) {
       if (!(error instanceof NoTrainingLabelsError)) throw error;
-      metrics.push({ slice: dataset.slices[i].key, trainingNodes: 0, testNodes: 0, unseenTestNodes: 0, accuracy: null, macroF1: null, openSetMacroF1: null, noveltyAuroc: null, rejectionRate: 0, trainSeconds: 0 });
+      metrics.push(emptySliceMetrics(dataset.slices[i].key));
       matrix.push(new Array<number | null>(sliceCount).fill(null));
       continue;
     }
@@ -260,8 +279,10 @@ async function evaluateModel(ctx: ChainContext, settings: RunSettings): Promise<
 
 export async function evaluateSlices(dataset: Dataset, settings: RunSettings, options: EvaluateOptions): Promise<EvaluationReport> {
   const reference = options.reference ?? referenceFromLabels(dataset);
-  const prefixes = dataset.slices.map((_, i) => prefixGraph(dataset, i));
-  const ctx: ChainContext = { dataset, reference, includeCurrentSlice: options.reference !== null, prefixes, propagated: new Map(), options };
+  const prefixes = options.cache?.prefixes ?? dataset.slices.map((_, i) => prefixGraph(dataset, i));
+  if (options.cache) options.cache.prefixes = prefixes;
+  const propagated = options.cache?.propagated ?? new Map<number, PropagatedFeatures>();
+  const ctx: ChainContext = { dataset, reference, includeCurrentSlice: options.reference !== null, prefixes, propagated, options };
   const graphModel = await evaluateModel(ctx, settings);
   const baseline = await evaluateModel(ctx, { ...settings, model: 'mlp' });
   return { dataset: dataset.manifest.name, reference: reference.source, slices: dataset.slices.map((s) => s.key), settings, graphModel, baseline };

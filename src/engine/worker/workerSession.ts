@@ -12,6 +12,7 @@ import type {
 } from '../../protocol/worker';
 import { isCancelMessage, isEngineRequest } from '../../protocol/worker';
 import { DatasetError } from '../dataset/types';
+import { ConflictError } from '../decisions/applyErrors';
 import { CancelFlag, CancelledError, type ProgressSink } from '../util/progress';
 import type { RequestContext, RequestHandlers } from './requestHandlers';
 
@@ -82,6 +83,7 @@ export class WorkerSession {
 export function toFailure(error: unknown): WorkerFailure {
   if (error instanceof DatasetError) return { kind: 'dataset', message: error.message, problems: error.problems };
   if (error instanceof CancelledError) return { kind: 'cancelled', message: error.message };
+  if (error instanceof ConflictError) return { kind: 'conflict', message: error.message, files: error.files };
   if (error instanceof Error) return { kind: 'internal', message: error.message, stack: error.stack };
   return { kind: 'internal', message: String(error) };
 }
