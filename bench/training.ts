@@ -86,7 +86,7 @@ function autogradStep(p: StepProblem, repeats: number): number {
         const z = tf.add(tf.matMul(hidden, w2), b2);
         const bce = tf.mean(tf.add(tf.mul(tf.sub(1, y), z), tf.mul(logWeight, tf.softplus(tf.neg(z)))));
         const l2 = tf.mul(2.5e-4, tf.addN([tf.sum(tf.square(w1)), tf.sum(tf.square(b1)), tf.sum(tf.square(w2)), tf.sum(tf.square(b2))]));
-        return tf.add(bce, l2) as tf.Scalar;
+        return tf.add<tf.Scalar>(bce, l2);
       },
       true,
       [w1, b1, w2, b2],
@@ -103,8 +103,19 @@ function autogradStep(p: StepProblem, repeats: number): number {
 function handWrittenTfStep(p: StepProblem, repeats: number): number {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
-  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], { learningRate: 0.01, weightDecay: 5e-4 });
-  const step = new DenseTrainingStep(p.features, p.rows, p.inputDim, oneHotTargets(p.classIndex, p.classes), positiveWeights(p.classIndex, p.classes), p.hidden, 1 / (p.rows * p.classes));
+  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], {
+    learningRate: 0.01,
+    weightDecay: 5e-4,
+  });
+  const step = new DenseTrainingStep(
+    p.features,
+    p.rows,
+    p.inputDim,
+    oneHotTargets(p.classIndex, p.classes),
+    positiveWeights(p.classIndex, p.classes),
+    p.hidden,
+    1 / (p.rows * p.classes),
+  );
   const mask = new Float32Array(p.rows * p.hidden);
   const ms = timeSteps(() => {
     dropoutMask(mask.length, 0.5, random, mask);
@@ -119,10 +130,22 @@ function handWrittenTfStep(p: StepProblem, repeats: number): number {
 async function parallelTfStep(p: StepProblem, repeats: number): Promise<number> {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
-  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], { learningRate: 0.01, weightDecay: 5e-4 });
+  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], {
+    learningRate: 0.01,
+    weightDecay: 5e-4,
+  });
   const inputs = sharedFloats(p.features.length);
   inputs.set(p.features);
-  const training = await ParallelDenseTraining.start(inputs, p.rows, p.inputDim, oneHotTargets(p.classIndex, p.classes), positiveWeights(p.classIndex, p.classes), p.hidden, 2, true);
+  const training = await ParallelDenseTraining.start(
+    inputs,
+    p.rows,
+    p.inputDim,
+    oneHotTargets(p.classIndex, p.classes),
+    positiveWeights(p.classIndex, p.classes),
+    p.hidden,
+    2,
+    true,
+  );
   const times: number[] = [];
   try {
     for (let i = 0; i < repeats + 2; i++) {
@@ -144,7 +167,10 @@ function typedArrayStep(p: StepProblem, repeats: number): number {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
   const { rows, inputDim, hidden, classes } = p;
-  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], { learningRate: 0.01, weightDecay: 5e-4 });
+  const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], {
+    learningRate: 0.01,
+    weightDecay: 5e-4,
+  });
   const targets = oneHotTargets(p.classIndex, classes);
   const posWeight = positiveWeights(p.classIndex, classes);
   const allRows = Int32Array.from({ length: rows }, (_, i) => i);
@@ -159,29 +185,33 @@ function typedArrayStep(p: StepProblem, repeats: number): number {
     outputKernel: new Float32Array(hidden * classes),
     outputBias: new Float32Array(classes),
   };
-  return timeSteps(() => {
-    dropoutMask(mask.length, 0.5, random, mask);
-    gatherMatMul(p.features, allRows, params.hiddenKernel, inputDim, hidden, hiddenOut);
-    for (let k = 0; k < hiddenOut.length; k++) {
-      const v = hiddenOut[k] + params.hiddenBias[k % hidden];
-      hiddenOut[k] = v > 0 ? v * mask[k] : 0;
-    }
-    gatherMatMul(hiddenOut, allRows, params.outputKernel, hidden, classes, logits);
-    for (let k = 0; k < logits.length; k++) logits[k] += params.outputBias[k % classes];
-    classWeightedBce(logits, targets, posWeight, logitsGradient);
-    grads.outputKernel.fill(0);
-    addTransposedProduct(hiddenOut, null, logitsGradient, hidden, classes, grads.outputKernel, 0, rows);
-    grads.outputBias.fill(0);
-    for (let k = 0; k < logitsGradient.length; k++) grads.outputBias[k % classes] += logitsGradient[k];
-    matMulTransposedRight(logitsGradient, params.outputKernel, rows, classes, hidden, hiddenGradient);
-    for (let k = 0; k < hiddenGradient.length; k++) if (hiddenOut[k] <= 0) hiddenGradient[k] = 0;
-    for (let k = 0; k < hiddenGradient.length; k++) hiddenGradient[k] *= mask[k] > 0 ? mask[k] : 0;
-    grads.hiddenKernel.fill(0);
-    addTransposedProduct(p.features, null, hiddenGradient, inputDim, hidden, grads.hiddenKernel, 0, rows);
-    grads.hiddenBias.fill(0);
-    for (let k = 0; k < hiddenGradient.length; k++) grads.hiddenBias[k % hidden] += hiddenGradient[k];
-    optimiser.update([grads.hiddenKernel, grads.hiddenBias, grads.outputKernel, grads.outputBias]);
-  }, repeats, 1);
+  return timeSteps(
+    () => {
+      dropoutMask(mask.length, 0.5, random, mask);
+      gatherMatMul(p.features, allRows, params.hiddenKernel, inputDim, hidden, hiddenOut);
+      for (let k = 0; k < hiddenOut.length; k++) {
+        const v = hiddenOut[k] + params.hiddenBias[k % hidden];
+        hiddenOut[k] = v > 0 ? v * mask[k] : 0;
+      }
+      gatherMatMul(hiddenOut, allRows, params.outputKernel, hidden, classes, logits);
+      for (let k = 0; k < logits.length; k++) logits[k] += params.outputBias[k % classes];
+      classWeightedBce(logits, targets, posWeight, logitsGradient);
+      grads.outputKernel.fill(0);
+      addTransposedProduct(hiddenOut, null, logitsGradient, hidden, classes, grads.outputKernel, 0, rows);
+      grads.outputBias.fill(0);
+      for (let k = 0; k < logitsGradient.length; k++) grads.outputBias[k % classes] += logitsGradient[k];
+      matMulTransposedRight(logitsGradient, params.outputKernel, rows, classes, hidden, hiddenGradient);
+      for (let k = 0; k < hiddenGradient.length; k++) if (hiddenOut[k] <= 0) hiddenGradient[k] = 0;
+      for (let k = 0; k < hiddenGradient.length; k++) hiddenGradient[k] *= mask[k] > 0 ? mask[k] : 0;
+      grads.hiddenKernel.fill(0);
+      addTransposedProduct(p.features, null, hiddenGradient, inputDim, hidden, grads.hiddenKernel, 0, rows);
+      grads.hiddenBias.fill(0);
+      for (let k = 0; k < hiddenGradient.length; k++) grads.hiddenBias[k % hidden] += hiddenGradient[k];
+      optimiser.update([grads.hiddenKernel, grads.hiddenBias, grads.outputKernel, grads.outputBias]);
+    },
+    repeats,
+    1,
+  );
 }
 
 /** An invented graph: each node links to `degree / 2` random others (about `degree` per node both ways). */
@@ -196,7 +226,12 @@ function inventedGraph(nodeCount: number, featureDim: number, degree: number, se
   }
   const features = new Float32Array(nodeCount * featureDim);
   for (let i = 0; i < features.length; i++) features[i] = random.normal();
-  return { nodeCount, features, featureDim, adjacency: buildAdjacency(nodeCount, { source, target, weight: null, count: edgeCount }, true) };
+  return {
+    nodeCount,
+    features,
+    featureDim,
+    adjacency: buildAdjacency(nodeCount, { source, target, weight: null, count: edgeCount }, true),
+  };
 }
 
 export async function runTrainingBenchmarks(print: (line: string) => void, options: { full?: boolean } = {}): Promise<void> {
@@ -212,7 +247,9 @@ export async function runTrainingBenchmarks(print: (line: string) => void, optio
 
   const nodeCount = 100_000;
   const epochs = options.full ? 200 : 10;
-  print(`# sign on an invented graph: ${nodeCount.toLocaleString('en')} nodes × 128 features, ~1,000,000 edges, 50% labelled, 10 classes, ${epochs} epochs`);
+  print(
+    `# sign on an invented graph: ${nodeCount.toLocaleString('en')} nodes × 128 features, ~1,000,000 edges, 50% labelled, 10 classes, ${epochs} epochs`,
+  );
   const graph = inventedGraph(nodeCount, 128, 20, 11);
   const random = new SeededRandom(12);
   const labelledNodes = Int32Array.from({ length: nodeCount }, (_, i) => i).filter(() => random.next() < 0.5);
@@ -227,8 +264,12 @@ export async function runTrainingBenchmarks(print: (line: string) => void, optio
   const out = await trainAndPredict(graph, train, { ...defaultModelSettings, kind: 'sign', epochs }, { precomputed: propagated });
   const total = (performance.now() - started) / 1000;
   const perEpoch = out.timings.train / epochs;
-  print(`propagate [X, ÂX, Â²X]: ${propagateSeconds.toFixed(2)} s on one thread, ${propagateParallelSeconds.toFixed(2)} s on two (PyTorch: 1.8 s)`);
-  print(`train: ${out.timings.train.toFixed(2)} s for ${epochs} epochs = ${(perEpoch * 1000).toFixed(0)} ms per epoch over ${labelledNodes.length} rows × 384 → 200 epochs ≈ ${(perEpoch * 200).toFixed(1)} s (PyTorch: 18.4 s)`);
+  print(
+    `propagate [X, ÂX, Â²X]: ${propagateSeconds.toFixed(2)} s on one thread, ${propagateParallelSeconds.toFixed(2)} s on two (PyTorch: 1.8 s)`,
+  );
+  print(
+    `train: ${out.timings.train.toFixed(2)} s for ${epochs} epochs = ${(perEpoch * 1000).toFixed(0)} ms per epoch over ${labelledNodes.length} rows × 384 → 200 epochs ≈ ${(perEpoch * 200).toFixed(1)} s (PyTorch: 18.4 s)`,
+  );
   print(`predict all nodes: ${out.timings.predict.toFixed(2)} s; trainAndPredict total ${total.toFixed(2)} s`);
 }
 

@@ -10,6 +10,7 @@ import { classColour } from './classPalette';
 import { el, replaceChildren } from './dom';
 
 const synchronousLayoutLimit = 3000;
+const layoutSettings = (graph: Graph) => ({ ...forceAtlas2.inferSettings(graph), barnesHutOptimize: graph.order > 500 });
 const synchronousIterations = 150;
 const workerRounds = 150;
 const workerMaxMilliseconds = 30_000;
@@ -61,7 +62,12 @@ export class GraphView {
     this.caption = el('div', { class: 'graph-caption', id: 'graph-caption' });
     const fit = el('vscode-button', { id: 'zoom-fit', secondary: true, title: 'Zoom to fit (F)' }, 'Zoom to fit');
     fit.addEventListener('click', () => this.zoomToFit());
-    this.element = el('section', { class: 'graph', 'aria-label': 'Neighbourhood graph' }, el('div', { class: 'graph-toolbar' }, this.caption, fit), this.stage, this.tooltip);
+    const relayout = el('vscode-button', { id: 'run-layout', secondary: true, title: 'Run the force layout again (in a worker)' }, 'Lay out');
+    relayout.addEventListener('click', () => {
+      const graph = this.renderer?.getGraph();
+      if (graph && !this.layout?.isRunning()) this.runWorkerLayout(graph as Graph);
+    });
+    this.element = el('section', { class: 'graph', 'aria-label': 'Neighbourhood graph' }, el('div', { class: 'graph-toolbar' }, this.caption, relayout, fit), this.stage, this.tooltip);
     if (!webglAvailable()) this.showUnavailable('WebGL is not available in this window, so the neighbourhood graph cannot be drawn. Everything else works: the members are listed in the table.');
   }
 
@@ -172,16 +178,19 @@ export class GraphView {
   }
 
   /**
-   * Small graphs are laid out at once on this thread (deterministic, a few tens of milliseconds);
-   * large ones in the ForceAtlas2 worker, stopped after a fixed number of rounds (counted by the
-   * position updates it makes) rather than after a time, so a busy machine still gets a layout.
+   * Small graphs are laid out at once on this thread (deterministic, a few tens of milliseconds).
+   * Large ones keep their ring start until the curator asks ("Lay out"): redrawing thousands of
+   * nodes after every worker round would keep the panel busy for seconds.
    */
   private runLayout(graph: Graph): void {
-    const settings = { ...forceAtlas2.inferSettings(graph), barnesHutOptimize: graph.order > 500 };
-    if (graph.order <= synchronousLayoutLimit) {
-      forceAtlas2.assign(graph, { iterations: synchronousIterations, settings });
-      return;
-    }
+    if (graph.order <= synchronousLayoutLimit) forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
+  }
+
+  /** ForceAtlas2 in its worker, stopped after a fixed number of rounds (counted by the position updates it makes) rather than after a time, so a busy machine still gets a layout. */
+  private runWorkerLayout(graph: Graph): void {
+    this.layout?.kill();
+    window.clearTimeout(this.layoutTimer);
+    const settings = layoutSettings(graph);
     try {
       const layout = new FA2Layout(graph, { settings });
       this.layout = layout;

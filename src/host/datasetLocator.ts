@@ -8,6 +8,11 @@ import { findDatasetFolder, manifestFileName } from './datasetPaths';
 const maxManifestsListed = 200;
 
 export async function chooseDatasetFolder(resource?: unknown): Promise<string | undefined> {
+  // { folder } from the dataset tree, the overview editor's links and the review commands.
+  if (typeof resource === 'object' && resource !== null && typeof (resource as { folder?: unknown }).folder === 'string') {
+    const folder = await findDatasetFolder(path.join((resource as { folder: string }).folder, manifestFileName));
+    if (folder) return folder;
+  }
   if (resource instanceof vscode.Uri && resource.scheme === 'file') {
     const folder = await datasetFolderOf(resource);
     if (folder) return folder;

@@ -11,6 +11,8 @@ export interface TreeNodeModel {
   /** Unique in the tree and stable across refreshes (VS Code keeps expansion state by id). */
   id: string;
   kind: TreeNodeKind;
+  /** The dataset folder, on dataset nodes: commands run from the node's context menu read it. */
+  folder?: string;
   label: string;
   description?: string;
   tooltip?: string;

@@ -139,14 +139,22 @@ export function lineChart(spec: LineChartSpec): string {
       current += `${current ? 'L' : 'M'}${num(f.x(p.x))},${num(f.y(p.y))}`;
     }
     if (current) segments.push(current);
+    // Points at the same place (e.g. two history windows replaying the same nodes) share one label.
+    const labels = new Map<string, { x: number; y: number; text: string[] }>();
     const marks = series.points
       .filter((p) => p.y !== null)
       .map((p) => {
         const px = f.x(p.x);
         const py = f.y(p.y as number);
-        const label = p.label ? `<text class="point-label" x="${num(px + 7)}" y="${num(py - 7)}">${escapeHtml(p.label)}</text>` : '';
-        return `<g class="pt" data-tip="${escapeHtml(p.tip)}"><title>${escapeHtml(p.tip)}</title>${markerPath(series.marker, px, py)}</g>${label}`;
+        if (p.label) {
+          const at = `${Math.round(px / 4)},${Math.round(py / 4)}`;
+          const entry = labels.get(at) ?? { x: px, y: py, text: [] };
+          entry.text.push(p.label);
+          labels.set(at, entry);
+        }
+        return `<g class="pt" data-tip="${escapeHtml(p.tip)}"><title>${escapeHtml(p.tip)}</title>${markerPath(series.marker, px, py)}</g>`;
       });
+    for (const l of labels.values()) marks.push(`<text class="point-label" x="${num(l.x + 7)}" y="${num(l.y - 7)}">${escapeHtml(l.text.join(', '))}</text>`);
     f.parts.push(
       `<g class="series ${series.className}${series.dashed ? ' dashed' : ''}">${segments.map((d) => `<path class="line" d="${d}"/>`).join('')}${marks.join('')}</g>`,
     );

@@ -1,10 +1,14 @@
 // The sections of the quality-over-time report, each a chart with a table of the same numbers.
 import type { ModelEvaluation, SliceMetrics } from '../engine/pipeline/evaluateSlices';
-import { describeWindow, settingsHash } from '../engine/pipeline/runSettings';
 import type { ContinualSummary, QualityReport, SettingSweep, SweepModelFigures, WarmColdRow } from '../engine/report/reportTypes';
 import { groupedBarChart, heatMap, legend, lineChart, type LegendEntry, type LineSeries, type Marker } from './charts';
 import { escapeHtml, figure, percent, seconds } from './format';
 import { htmlTable, type CellInput } from './htmlTable';
+
+// Only types come from the engine: a host can render a report without loading engine code.
+function describeWindow(window: number | 'all'): string {
+  return window === 'all' ? 'all earlier slices' : `${window} earlier slice${window === 1 ? '' : 's'}`;
+}
 
 interface ModelStyle {
   name: string;
@@ -49,7 +53,7 @@ export function headerSection(report: QualityReport): string {
       `model ${s.model}; history ${describeWindow(s.historyWindow)}; ${s.warmStart ? 'warm start' : 'cold start'}; label rate ${percent(s.labelRate, 0)}; ` +
         `${s.epochs} epochs, ${s.hiddenUnits} hidden units, learning rate ${s.learningRate}; novelty ${s.noveltyMethod}` +
         `${s.rejectQuantile !== null ? `, reject top ${percent(s.rejectQuantile, 0)}` : `, DOC α ${s.alpha}, ${s.thresholdFolds} threshold folds`}; ` +
-        `smoothing λ ${s.smoothingWeight} × ${s.smoothingRounds} rounds; seed ${s.seed} (settings ${settingsHash(s)})`,
+        `smoothing λ ${s.smoothingWeight} × ${s.smoothingRounds} rounds; seed ${s.seed} (settings ${report.settingsHash})`,
     ],
     [
       'Sweeps',

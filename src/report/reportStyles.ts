@@ -61,9 +61,10 @@ p.lead, p.explain { color: var(--rc-muted); margin: 0.2em 0 0.6em; max-width: 70
 dl.facts { display: grid; grid-template-columns: max-content 1fr; gap: 2px 16px; margin: 8px 0; }
 dl.facts dt { color: var(--rc-muted); } dl.facts dd { margin: 0; overflow-wrap: anywhere; }
 code { font-family: ui-monospace, SFMono-Regular, Menlo, Consolas, monospace; font-size: 0.92em; }
-.figure { display: flex; flex-wrap: wrap; gap: 12px 24px; align-items: flex-start; margin: 8px 0 4px; }
-.chart-box { flex: 3 1 460px; min-width: 300px; max-width: 760px; }
-.table-box { flex: 2 1 280px; max-height: 420px; overflow: auto; border: 1px solid var(--rc-border); border-radius: 4px; }
+.figure { display: grid; grid-template-columns: minmax(300px, 640px) minmax(260px, 1fr); gap: 12px 24px; align-items: start; margin: 8px 0 4px; }
+@media (max-width: 960px) { .figure { grid-template-columns: minmax(0, 1fr); } }
+.chart-box { min-width: 0; }
+.table-box { max-height: 440px; overflow: auto; border: 1px solid var(--rc-border); border-radius: 4px; }
 svg.chart { width: 100%; height: auto; display: block; font-family: inherit; }
 .grid { stroke: var(--rc-grid); stroke-width: 1; }
 .axis, .zero { stroke: var(--rc-axis); stroke-width: 1; }
@@ -84,7 +85,7 @@ svg.chart { width: 100%; height: auto; display: block; font-family: inherit; }
 .legend-item { display: inline-flex; align-items: center; gap: 4px; }
 table { border-collapse: collapse; font-variant-numeric: tabular-nums; font-size: 12px; width: 100%; }
 caption { text-align: left; font-weight: 600; padding: 6px 8px; color: var(--rc-fg); }
-th, td { padding: 3px 8px; border-bottom: 1px solid var(--rc-border); text-align: right; white-space: nowrap; }
+th, td { padding: 3px 6px; border-bottom: 1px solid var(--rc-border); text-align: right; white-space: nowrap; }
 thead th { position: sticky; top: 0; background: var(--rc-panel); } th { font-weight: 600; }
 th:first-child, td:first-child { text-align: left; }
 table.summary { width: auto; } table.summary td, table.summary th { padding: 4px 12px; }

@@ -6,12 +6,12 @@
 // Smoothing is linear: R rounds of s ← (1 − λ)s + λ·Ms (M = neighbour mean, identity on an
 // isolated node) give Σ_k C(R, k)(1 − λ)^(R−k) λ^k M^k s. The M^k s are smoothNovelty rounds with
 // λ = 1, computed once per α, so moving λ costs one pass over the nodes instead of R passes over
-// the edges. Every term is ≥ 0 for DOC novelty, so "smoothed novelty > 0" comes out exactly as
-// with smoothNovelty(s, λ, R); values agree to float32 rounding.
+// the edges; values agree with smoothNovelty(s, λ, R) to float32 rounding. For DOC the score is
+// the pipeline's signed margin (docMargin), refitted for each α on what the run fitted on.
 import type { CsrMatrix } from '../engine/graph/csr';
-import { localNodesOfSlice, rejectedAmong, type PrefixFit } from '../engine/pipeline/modelOnPrefix';
+import { localNodesOfSlice, rejectedAmong, thresholdsFor, type PrefixFit, type ThresholdFit } from '../engine/pipeline/modelOnPrefix';
 import type { NoveltyMethod, RunSettings } from '../engine/pipeline/runSettings';
-import { docNovelty, docThresholds } from '../engine/scoring/docThresholds';
+import { docMargin } from '../engine/scoring/docThresholds';
 import { smoothNovelty } from '../engine/scoring/smoothing';
 import type { Dataset } from '../engine/dataset/types';
 import type { ThresholdPreviewResult, ThresholdSetting } from '../protocol/webview';
@@ -20,7 +20,7 @@ export const defaultMinCandidateSize = 3;
 
 export type PreviewNovelty =
   /** DOC: novelty follows the thresholds, which follow α. Probabilities are local nodes × classes. */
-  | { kind: 'doc'; probabilities: Float32Array; classCount: number; trainNodes: Int32Array; trainClasses: Int32Array }
+  | { kind: 'doc'; probabilities: Float32Array; classCount: number; thresholdFit: ThresholdFit }
   /** Max-softmax or energy scores: α plays no part. */
   | { kind: 'fixed'; noveltyRaw: Float32Array };
 
@@ -63,7 +63,7 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
     if (rawFor?.alpha !== key) {
       let raw: Float32Array;
       if (source.kind === 'fixed') raw = source.noveltyRaw;
-      else raw = docNovelty(source.probabilities, source.classCount, docThresholds(source.probabilities, source.classCount, source.trainNodes, source.trainClasses, alpha));
+      else raw = docMargin(source.probabilities, source.classCount, thresholdsFor(source.thresholdFit, source.classCount, alpha));
       const powers = [raw];
       for (let k = 1; k <= input.smoothingRounds; k++) powers.push(smoothNovelty(powers[k - 1], input.adjacency, 1, 1));
       rawFor = { alpha: key, powers };
@@ -118,22 +118,8 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
  */
 export function thresholdPreviewInputOf(dataset: Dataset, fit: PrefixFit, settings: RunSettings, candidateMembers: ArrayLike<number>[] = []): ThresholdPreviewInput {
   const classCount = fit.modelClasses.length;
-  const trainNodes: number[] = [];
-  const trainClasses: number[] = [];
-  const modelIndexOfGlobal = new Map<number, number>();
-  fit.modelClasses.forEach((g, i) => modelIndexOfGlobal.set(g, i));
-  for (let k = 0; k < fit.training.nodes.length; k++) {
-    const local = fit.prefix.localIndex[fit.training.nodes[k]];
-    const cls = modelIndexOfGlobal.get(fit.training.globalClasses[k]);
-    if (local >= 0 && cls !== undefined) {
-      trainNodes.push(local);
-      trainClasses.push(cls);
-    }
-  }
   const novelty: PreviewNovelty =
-    settings.noveltyMethod === 'doc'
-      ? { kind: 'doc', probabilities: fit.probabilities, classCount, trainNodes: Int32Array.from(trainNodes), trainClasses: Int32Array.from(trainClasses) }
-      : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
+    settings.noveltyMethod === 'doc' ? { kind: 'doc', probabilities: fit.probabilities, classCount, thresholdFit: fit.thresholdFit } : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
   const candidates = candidateMembers.map((members) => Int32Array.from(Array.from(members, (g) => fit.prefix.localIndex[g]).filter((l) => l >= 0)));
   return {
     novelty,

@@ -3,6 +3,8 @@ import { execFileSync } from 'node:child_process';
 import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 import { runCli } from '../../src/cli/run';
+import { planApply } from '../../src/engine/decisions/plan';
+import { applyPlan } from '../../src/engine/decisions/apply';
 import { collectingIo } from '../../src/cli/io';
 import { copyDemo, demoDecisions, GIT_TEST_ENV, hashFolder, makeTempRoot, removeTemporaryFolders } from './fixtures';
 
@@ -104,5 +106,27 @@ describe('graph-curator apply', () => {
     const rebased = await cli('apply', folder, '--decisions', decisionsPath, '--rebase');
     assert.equal(rebased.code, 0, rebased.err);
     assert.match(rebased.out, /Merged class: converter-fault → pitch-system-fault/);
+  });
+
+  it('refuses to apply over an interrupted apply; --recover settles it first', async () => {
+    const decisions = (await demoDecisions(folder)).file;
+    const crash = new Error('simulated crash');
+    await assert.rejects(
+      applyPlan(await planApply(folder, decisions), {
+        hooks: {
+          step: (at) => {
+            if (at === 'after-labels') throw crash;
+          },
+        },
+      }),
+      (error: unknown) => error === crash,
+    );
+    const refused = await cli('apply', folder, '--decisions', decisionsPath);
+    assert.equal(refused.code, 1);
+    assert.match(refused.err, /an earlier apply was interrupted \(label-log.jsonl: batch .+\); recover it first/);
+    const recovered = await cli('apply', folder, '--recover', '--decisions', decisionsPath);
+    assert.equal(recovered.code, 0, recovered.err);
+    assert.match(recovered.out, /had replaced labels.csv; wrote classes.json and marked it committed/);
+    assert.match(recovered.out, /Nothing to change/);
   });
 });

@@ -106,7 +106,13 @@ describe('models/hand-written gradients', () => {
       const train = { nodeIndex: Int32Array.from([0, 2, 4]), classIndex: Int32Array.from([0, 1, 1]), classCount: 2 };
       const problem = new GraphProblem(kind, inputs, train);
       const layout = parameterLayout(kind, featureDim, hidden, 2);
-      const params = layout.map((spec) => randomArray(spec.shape.reduce((a, b) => a * b, 1), random, 0.8));
+      const params = layout.map((spec) =>
+        randomArray(
+          spec.shape.reduce((a, b) => a * b, 1),
+          random,
+          0.8,
+        ),
+      );
       const mask = dropoutMask(nodeCount * hidden, 0.3, random);
       const lossOf = (): number =>
         tf.tidy(() => {
@@ -114,9 +120,9 @@ describe('models/hand-written gradients', () => {
           return problem.loss(problem.forward(tensors, tf.tensor2d(mask, [nodeCount, hidden])).logits).dataSync()[0];
         });
       const analytic = tf.tidy(() => {
-        const { grads } = tf.valueAndGrads((...tensors: tf.Tensor[]) => problem.loss(problem.forward(tensors, tf.tensor2d(mask, [nodeCount, hidden])).logits))(
-          params.map((data, i) => tf.tensor(data, layout[i].shape)),
-        );
+        const { grads } = tf.valueAndGrads((...tensors: tf.Tensor[]) =>
+          problem.loss(problem.forward(tensors, tf.tensor2d(mask, [nodeCount, hidden])).logits),
+        )(params.map((data, i) => tf.tensor(data, layout[i].shape)));
         return grads.map((g) => g.dataSync() as Float32Array);
       });
       // float32 forward: rounding error ≈ 1e-7 / ε stays well below the tolerance. Finite

@@ -27,7 +27,11 @@ export function karateWithIdentityFeatures(): KarateClub {
     source.push(Number(from));
     target.push(Number(to));
   });
-  const adjacency = buildAdjacency(nodeCount, { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length }, true);
+  const adjacency = buildAdjacency(
+    nodeCount,
+    { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length },
+    true,
+  );
   const features = new Float32Array(nodeCount * nodeCount);
   for (let i = 0; i < nodeCount; i++) features[i * nodeCount + i] = 1;
   return { inputs: { nodeCount, features, featureDim: nodeCount, adjacency }, faction, edgeCount: source.length };

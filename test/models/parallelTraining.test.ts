@@ -70,7 +70,11 @@ describe('models/trainAndPredict on two threads', () => {
     const features = Float32Array.from({ length: nodeCount * featureDim }, () => random.normal());
     const adjacency = buildAdjacency(nodeCount, { source: new Int32Array(0), target: new Int32Array(0), weight: null, count: 0 }, true);
     const nodeIndex = Int32Array.from({ length: 1000 }, (_, i) => i);
-    const train = { nodeIndex, classIndex: nodeIndex.map((i) => (features[i * featureDim] > 0 ? 0 : features[i * featureDim + 1] > 0 ? 1 : 2)), classCount: 3 };
+    const train = {
+      nodeIndex,
+      classIndex: nodeIndex.map((i) => (features[i * featureDim] > 0 ? 0 : features[i * featureDim + 1] > 0 ? 1 : 2)),
+      classCount: 3,
+    };
     const inputs = { nodeCount, features, featureDim, adjacency };
     const settings = { ...defaultModelSettings, kind: 'mlp' as const, epochs: 30, seed: 2 };
     const one = await trainAndPredict(inputs, train, settings, { parallel: false });

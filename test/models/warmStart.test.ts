@@ -39,7 +39,12 @@ describe('models/warm start', () => {
   it('with zero epochs a warm-started model scores the old classes exactly as before', async () => {
     const propagated = precomputePropagation(club.inputs, 2);
     const previous = await trainAndPredict(club.inputs, twoClasses, settings, { precomputed: propagated });
-    const grown = await trainAndPredict(club.inputs, threeClasses, { ...settings, epochs: 0 }, { warmStart: previous.weights, precomputed: propagated });
+    const grown = await trainAndPredict(
+      club.inputs,
+      threeClasses,
+      { ...settings, epochs: 0 },
+      { warmStart: previous.weights, precomputed: propagated },
+    );
     for (let node = 0; node < 34; node++) {
       assert.equal(grown.logits[node * 3], previous.logits[node * 2]);
       assert.equal(grown.logits[node * 3 + 1], previous.logits[node * 2 + 1]);

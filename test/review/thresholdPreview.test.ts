@@ -4,7 +4,7 @@ import { karateClub } from 'graphology-generators/social';
 import { buildAdjacency } from '../../src/engine/graph/csr';
 import { rejectedAmong, type PrefixFit } from '../../src/engine/pipeline/modelOnPrefix';
 import type { RunSettings } from '../../src/engine/pipeline/runSettings';
-import { docNovelty, docThresholds } from '../../src/engine/scoring/docThresholds';
+import { docMargin, docThresholds } from '../../src/engine/scoring/docThresholds';
 import { smoothNovelty } from '../../src/engine/scoring/smoothing';
 import { SeededRandom } from '../../src/engine/util/random';
 import { createThresholdPreviewer, thresholdSettingOf, type ThresholdPreviewInput } from '../../src/review/thresholdPreview';
@@ -31,7 +31,7 @@ function karateInput(): ThresholdPreviewInput {
   const trainClasses = Int32Array.from(trainNodes, (n) => n % classCount);
   for (const n of trainNodes) probabilities[n * classCount + (n % classCount)] = 0.6 + 0.4 * random.next();
   return {
-    novelty: { kind: 'doc', probabilities, classCount, trainNodes, trainClasses },
+    novelty: { kind: 'doc', probabilities, classCount, thresholdFit: { probabilities, rows: trainNodes, classes: trainClasses, scale: 'std' } },
     noveltyMethod: 'doc',
     adjacency,
     smoothingRounds: 2,
@@ -43,9 +43,9 @@ function karateInput(): ThresholdPreviewInput {
 
 function recompute(input: ThresholdPreviewInput, setting: ThresholdSetting): Uint8Array {
   if (input.novelty.kind !== 'doc') throw new Error('doc only');
-  const { probabilities, classCount, trainNodes, trainClasses } = input.novelty;
-  const thresholds = docThresholds(probabilities, classCount, trainNodes, trainClasses, setting.alpha);
-  const smoothed = smoothNovelty(docNovelty(probabilities, classCount, thresholds), input.adjacency, setting.lambda, input.smoothingRounds);
+  const { probabilities, classCount, thresholdFit } = input.novelty;
+  const thresholds = docThresholds(probabilities, classCount, thresholdFit.rows, thresholdFit.classes, setting.alpha);
+  const smoothed = smoothNovelty(docMargin(probabilities, classCount, thresholds), input.adjacency, setting.lambda, input.smoothingRounds);
   const rule = { rejectQuantile: setting.mode === 'quantile' ? setting.quantile : null, noveltyMethod: 'doc' } as RunSettings;
   return rejectedAmong({ noveltySmoothed: smoothed } as PrefixFit, rule, input.scoredNodes);
 }

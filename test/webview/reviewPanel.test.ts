@@ -51,6 +51,9 @@ describe('webview/review panel (Chromium)', function () {
     assert.equal(await p.page.locator('#graph-stage canvas').count() > 0, true, 'sigma drew into the graph area');
     assert.equal(await p.page.locator('#graph-unavailable').count(), 0);
     assert.equal(await p.page.locator('.member-rows .member-row').count(), 18);
+    // The worker layout (ForceAtlas2 from a blob: URL) runs under the same policy.
+    await p.page.locator('#run-layout').click();
+    await p.page.waitForTimeout(500);
     assert.deepEqual(await p.violations(), []);
     assert.deepEqual(p.pageErrors.filter((e) => !e.includes('GL Driver')), []);
   });

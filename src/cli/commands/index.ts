@@ -9,6 +9,9 @@ export const COMMANDS: Record<string, () => Promise<CommandModule>> = {
   apply: () => import('./apply'),
   score: () => import('./score'),
   evaluate: () => import('./evaluate'),
+  report: () => import('./report'),
+  doubts: () => import('./doubts'),
+  suggest: () => import('./suggest'),
   discover: () => import('./discover'),
   help: () => import('./help'),
 };

@@ -121,7 +121,9 @@ export function runDenseShard(tf: Tfjs, shard: DenseShard, parameters: Float32Ar
     const outputBiasGradient = tf.matMul(logitsGradientT, shard.onesColumn); // classes × 1
     const droppedGradient = tf.matMul(logitsGradient, tf.tensor2d(outputKernelTransposed, [classCount, hiddenUnits]));
     // [Hd > 0] = [H > 0]·[mask > 0]; multiplying by the mask again restores its 1/(1 - rate) factor.
-    const hiddenGradient = maskTensor ? tf.mul(droppedGradient, tf.mul(tf.step(dropped), maskTensor)) : tf.mul(droppedGradient, tf.step(hidden));
+    const hiddenGradient = maskTensor
+      ? tf.mul(droppedGradient, tf.mul(tf.step(dropped), maskTensor))
+      : tf.mul(droppedGradient, tf.step(hidden));
     // (inputDim + 1) × hidden: the hidden kernel's gradient, then the hidden bias's as the last row.
     const hiddenGradients = tf.matMul(shard.inputsTransposedWithOnes, hiddenGradient);
     return [loss, hiddenGradients, outputKernelGradientT, outputBiasGradient];
@@ -137,5 +139,14 @@ export function runDenseShard(tf: Tfjs, shard: DenseShard, parameters: Float32Ar
 }
 
 export function disposeDenseShard(tf: Tfjs, shard: DenseShard): void {
-  tf.dispose([shard.inputs, shard.inputsTransposedWithOnes, shard.onesColumn, shard.oneMinusTargets, shard.logWeight, shard.scaledLogWeight, shard.scaledPositiveTarget, shard.lossScale]);
+  tf.dispose([
+    shard.inputs,
+    shard.inputsTransposedWithOnes,
+    shard.onesColumn,
+    shard.oneMinusTargets,
+    shard.logWeight,
+    shard.scaledLogWeight,
+    shard.scaledPositiveTarget,
+    shard.lossScale,
+  ]);
 }

@@ -18,7 +18,10 @@ export interface LossAndGradients {
 }
 
 /** Copies the parameters into one vector in the order of denseShard's layout (without the loss slot). */
-export function flattenParameters(p: DenseParameters, out: Float32Array = new Float32Array(p.hiddenKernel.length + p.hiddenBias.length + p.outputKernel.length + p.outputBias.length)): Float32Array {
+export function flattenParameters(
+  p: DenseParameters,
+  out: Float32Array = new Float32Array(p.hiddenKernel.length + p.hiddenBias.length + p.outputKernel.length + p.outputBias.length),
+): Float32Array {
   let at = 0;
   for (const part of [p.hiddenKernel, p.hiddenBias, p.outputKernel, p.outputBias]) {
     out.set(part, at);
@@ -105,8 +108,8 @@ export function predictDense(
         const h = tf.fused.matMul({ a: x, b: kernels[0], bias: kernels[1], activation: 'relu' });
         return [h, tf.fused.matMul({ a: h, b: kernels[2], bias: kernels[3] })];
       });
-      embeddings.set(hidden.dataSync() as Float32Array, start * hiddenUnits);
-      logits.set(out.dataSync() as Float32Array, start * classCount);
+      embeddings.set(hidden.dataSync(), start * hiddenUnits);
+      logits.set(out.dataSync(), start * classCount);
       tf.dispose([hidden, out]);
     }
   } finally {

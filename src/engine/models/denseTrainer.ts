@@ -36,7 +36,12 @@ export const parallelTrainingThreshold = 2_000_000;
 export const parallelShardCount = 2;
 
 /** Copies the labelled rows out of the full matrix. */
-export function gatherRows(matrix: Float32Array, width: number, rows: Int32Array, out: Float32Array = new Float32Array(rows.length * width)): Float32Array {
+export function gatherRows(
+  matrix: Float32Array,
+  width: number,
+  rows: Int32Array,
+  out: Float32Array = new Float32Array(rows.length * width),
+): Float32Array {
   for (let r = 0; r < rows.length; r++) out.set(matrix.subarray(rows[r] * width, (rows[r] + 1) * width), r * width);
   return out;
 }
@@ -62,10 +67,10 @@ export async function trainDenseNetwork(
   const rowCount = train.nodeIndex.length;
   const { classCount } = train;
   const parameters = denseParameters(weights);
-  const optimiser = new AdamOptimizer(
-    [parameters.hiddenKernel, parameters.hiddenBias, parameters.outputKernel, parameters.outputBias],
-    { learningRate: settings.learningRate, weightDecay: settings.weightDecay },
-  );
+  const optimiser = new AdamOptimizer([parameters.hiddenKernel, parameters.hiddenBias, parameters.outputKernel, parameters.outputBias], {
+    learningRate: settings.learningRate,
+    weightDecay: settings.weightDecay,
+  });
   const lossHistory: number[] = [];
   if (rowCount > 0 && settings.epochs > 0) {
     const targets = oneHotTargets(train.classIndex, classCount);
@@ -77,7 +82,16 @@ export async function trainDenseNetwork(
     if (parallel ?? rowCount * inputDim >= parallelTrainingThreshold) {
       const sharedInputs = gatherRows(features, inputDim, train.nodeIndex, sharedFloats(rowCount * inputDim));
       const withDropout = settings.dropout > 0;
-      const training = await ParallelDenseTraining.start(sharedInputs, rowCount, inputDim, targets, posWeight, settings.hiddenUnits, parallelShardCount, withDropout);
+      const training = await ParallelDenseTraining.start(
+        sharedInputs,
+        rowCount,
+        inputDim,
+        targets,
+        posWeight,
+        settings.hiddenUnits,
+        parallelShardCount,
+        withDropout,
+      );
       try {
         if (withDropout) dropoutMask(training.masks[0].length, settings.dropout, random, training.masks[0]);
         for (let epoch = 0; epoch < settings.epochs; epoch++) {
@@ -86,7 +100,8 @@ export async function trainDenseNetwork(
           const current = withDropout ? epoch % 2 : null;
           const running = training.run(current);
           // Draw the next epoch's mask while the workers compute this one.
-          if (withDropout && epoch + 1 < settings.epochs) dropoutMask(training.masks[1 - epoch % 2].length, settings.dropout, random, training.masks[1 - epoch % 2]);
+          if (withDropout && epoch + 1 < settings.epochs)
+            dropoutMask(training.masks[1 - (epoch % 2)].length, settings.dropout, random, training.masks[1 - (epoch % 2)]);
           const { loss, gradients } = splitGradients(await running, inputDim, settings.hiddenUnits, classCount);
           optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
           report(epoch, loss);
@@ -95,7 +110,15 @@ export async function trainDenseNetwork(
         await training.dispose();
       }
     } else {
-      const step = new DenseTrainingStep(gatherRows(features, inputDim, train.nodeIndex), rowCount, inputDim, targets, posWeight, settings.hiddenUnits, 1 / (rowCount * classCount));
+      const step = new DenseTrainingStep(
+        gatherRows(features, inputDim, train.nodeIndex),
+        rowCount,
+        inputDim,
+        targets,
+        posWeight,
+        settings.hiddenUnits,
+        1 / (rowCount * classCount),
+      );
       const mask = settings.dropout > 0 ? new Float32Array(rowCount * settings.hiddenUnits) : null;
       try {
         for (let epoch = 0; epoch < settings.epochs; epoch++) {

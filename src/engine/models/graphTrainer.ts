@@ -34,7 +34,7 @@ function linear(x: tf.Tensor2D, w: tf.Tensor2D): tf.Tensor2D {
       value: tf.matMul(input, kernel),
       gradFunc: (dy: tf.Tensor, saved: tf.Tensor[]) => {
         const [savedInput, savedKernel] = saved as tf.Tensor2D[];
-        return [tf.matMul(dy as tf.Tensor2D, tf.transpose(savedKernel)), tf.matMul(tf.transpose(savedInput), dy as tf.Tensor2D)];
+        return [tf.matMul(dy, tf.transpose(savedKernel)), tf.matMul(tf.transpose(savedInput), dy)];
       },
     };
   });
@@ -44,6 +44,7 @@ function linear(x: tf.Tensor2D, w: tf.Tensor2D): tf.Tensor2D {
 /** The graph operators and loss constants of one training run, as tensors. */
 export class GraphProblem {
   readonly features: tf.Tensor2D;
+  readonly featuresTransposed: tf.Tensor2D;
   readonly oneMinusTargets: tf.Tensor2D;
   readonly logWeight: tf.Tensor2D;
   readonly scaledLogWeight: tf.Tensor2D;
@@ -63,6 +64,7 @@ export class GraphProblem {
     this.propagation = kind === 'gcn' ? symmetricNormalized(inputs.adjacency) : meanNormalized(inputs.adjacency, false);
     this.propagationTransposed = kind === 'gcn' ? undefined : transpose(this.propagation);
     this.features = tf.tensor2d(inputs.features, [nodeCount, featureDim]);
+    this.featuresTransposed = tf.transpose(this.features);
     // The loss covers the labelled rows only: unlabelled rows get weight 0 everywhere.
     const posWeight = positiveWeights(train.classIndex, classCount);
     const rowCount = new Float32Array(nodeCount);
@@ -91,6 +93,18 @@ export class GraphProblem {
     this.scaledPositiveTarget = tf.tensor2d(positiveTarget, [nodeCount, classCount]);
   }
 
+  /** X · w with the gradient for w only (X is constant), taken against Xᵀ kept from the start. */
+  private inputLinear(w: tf.Tensor2D): tf.Tensor2D {
+    const op = tf.customGrad((...args: (tf.Tensor | tf.GradSaveFunc)[]) => {
+      const kernel = args[0] as tf.Tensor2D;
+      return {
+        value: tf.matMul(this.features, kernel),
+        gradFunc: (dy: tf.Tensor) => tf.matMul(this.featuresTransposed, dy as tf.Tensor2D),
+      };
+    });
+    return op(w) as tf.Tensor2D;
+  }
+
   private propagate(h: tf.Tensor2D): tf.Tensor2D {
     return sparseMatMul(this.propagation, h, this.propagationTransposed);
   }
@@ -99,12 +113,19 @@ export class GraphProblem {
   forward(params: tf.Tensor[], mask: tf.Tensor2D | null): { hidden: tf.Tensor2D; logits: tf.Tensor2D } {
     if (this.kind === 'gcn') {
       const [w1, b1, w2, b2] = params as [tf.Tensor2D, tf.Tensor1D, tf.Tensor2D, tf.Tensor1D];
-      const hidden = tf.relu(tf.add(this.propagate(linear(this.features, w1)), b1)) as tf.Tensor2D;
+      const hidden = tf.relu(tf.add(this.propagate(this.inputLinear(w1)), b1)) as tf.Tensor2D;
       const dropped: tf.Tensor2D = mask ? tf.mul(hidden, mask) : hidden;
       return { hidden, logits: tf.add(this.propagate(linear(dropped, w2)), b2) };
     }
-    const [self1, neighbour1, b1, self2, neighbour2, b2] = params as [tf.Tensor2D, tf.Tensor2D, tf.Tensor1D, tf.Tensor2D, tf.Tensor2D, tf.Tensor1D];
-    const hidden = tf.relu(tf.add(tf.add(linear(this.features, self1), this.propagate(linear(this.features, neighbour1))), b1)) as tf.Tensor2D;
+    const [self1, neighbour1, b1, self2, neighbour2, b2] = params as [
+      tf.Tensor2D,
+      tf.Tensor2D,
+      tf.Tensor1D,
+      tf.Tensor2D,
+      tf.Tensor2D,
+      tf.Tensor1D,
+    ];
+    const hidden = tf.relu(tf.add(tf.add(this.inputLinear(self1), this.propagate(this.inputLinear(neighbour1))), b1)) as tf.Tensor2D;
     const dropped: tf.Tensor2D = mask ? tf.mul(hidden, mask) : hidden;
     return { hidden, logits: tf.add(tf.add(linear(dropped, self2), this.propagate(linear(dropped, neighbour2))), b2) };
   }
@@ -117,14 +138,22 @@ export class GraphProblem {
       const terms = tf.add(tf.mul(this.oneMinusTargets, z), tf.mul(this.logWeight, tf.softplus(tf.neg(z))));
       return {
         value: tf.mul(tf.sum(terms), this.lossScale),
-        gradFunc: (dy: tf.Tensor, saved: tf.Tensor[]) => tf.mul(dy, tf.sub(tf.mul(tf.sigmoid(saved[0]), this.scaledLogWeight), this.scaledPositiveTarget)),
+        gradFunc: (dy: tf.Tensor, saved: tf.Tensor[]) =>
+          tf.mul(dy, tf.sub(tf.mul(tf.sigmoid(saved[0]), this.scaledLogWeight), this.scaledPositiveTarget)),
       };
     });
     return op(logits) as tf.Scalar;
   }
 
   dispose(): void {
-    tf.dispose([this.features, this.oneMinusTargets, this.logWeight, this.scaledLogWeight, this.scaledPositiveTarget]);
+    tf.dispose([
+      this.features,
+      this.featuresTransposed,
+      this.oneMinusTargets,
+      this.logWeight,
+      this.scaledLogWeight,
+      this.scaledPositiveTarget,
+    ]);
   }
 }
 
@@ -155,7 +184,9 @@ export async function trainGraphNetwork(
       if (mask) dropoutMask(mask.length, settings.dropout, random, mask);
       const [loss, gradients] = tf.tidy(() => {
         const maskTensor = mask ? tf.tensor2d(mask, [nodeCount, hiddenUnits]) : null;
-        const { value, grads } = tf.valueAndGrads((...params: tf.Tensor[]) => problem.loss(problem.forward(params, maskTensor).logits))(upload());
+        const { value, grads } = tf.valueAndGrads((...params: tf.Tensor[]) => problem.loss(problem.forward(params, maskTensor).logits))(
+          upload(),
+        );
         return [value, grads] as const;
       });
       const gradientData = gradients.map((g) => g.dataSync() as Float32Array);

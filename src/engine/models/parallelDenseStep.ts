@@ -8,7 +8,13 @@
 // bundle); tfjs itself is required from the installed package, as the main thread does.
 import { Worker } from 'node:worker_threads';
 import { dirname, sep } from 'node:path';
-import { createDenseShard, disposeDenseShard, gradientLength, runDenseShard } from './denseShard';
+import { createDenseShard, disposeDenseShard, gradientLength, runDenseShard, type DenseShard, type Tfjs } from './denseShard';
+
+interface DenseShardKernels {
+  createDenseShard: typeof createDenseShard;
+  runDenseShard: typeof runDenseShard;
+  disposeDenseShard: typeof disposeDenseShard;
+}
 
 interface WorkerSetup {
   tfjsPath: string;
@@ -33,45 +39,46 @@ type WorkerReply = { type: 'ready' } | { type: 'done' } | { type: 'error'; messa
 function workerMain(): void {
   // Modules are reached through process.getBuiltinModule and createRequire rather than a bare
   // `require`, which a bundler would rewrite in this function's text.
-  const { parentPort, workerData } = process.getBuiltinModule('node:worker_threads');
-  const setup = workerData as WorkerSetup;
+  const threads = process.getBuiltinModule('node:worker_threads');
+  const parentPort = threads.parentPort!;
+  const setup = threads.workerData as WorkerSetup;
   const load = process.getBuiltinModule('node:module').createRequire(setup.tfjsPath);
-  const tf = load(setup.tfjsPath);
-  const wasmBackend = load(setup.wasmBackendPath);
+  const tf = load(setup.tfjsPath) as Tfjs;
+  const wasmBackend = load(setup.wasmBackendPath) as { setWasmPaths(prefix: string): void };
   // denseShard's functions, defined by the text before this function (see workerSource); named
   // through globalThis because a bundler rewrites references to imported names.
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
-  const kernels = (globalThis as any).denseShardKernels;
+  const kernels = (globalThis as unknown as { denseShardKernels: DenseShardKernels }).denseShardKernels;
   const rowCount = setup.rowEnd - setup.rowStart;
   const parameters = new Float32Array(setup.parameters);
   const gradients = new Float32Array(setup.gradients);
   const masks = setup.masks.map((buffer) => new Float32Array(buffer, setup.rowStart * setup.hiddenUnits * 4, rowCount * setup.hiddenUnits));
-  let shard: unknown = null;
+  let shard: DenseShard | null = null;
   wasmBackend.setWasmPaths(setup.wasmFolder);
   tf.setBackend('wasm')
-    .then((started: boolean) => {
+    .then(async (started: boolean) => {
       if (!started) throw new Error('the tfjs wasm backend did not start in a training worker');
-      return tf.ready();
+      await tf.ready();
     })
     .then(() => {
       const inputs = new Float32Array(setup.inputs, setup.rowStart * setup.inputDim * 4, rowCount * setup.inputDim);
       const classCount = setup.posWeight.length;
       const targets = setup.targets.subarray(setup.rowStart * classCount, setup.rowEnd * classCount);
       shard = kernels.createDenseShard(tf, inputs, rowCount, setup.inputDim, targets, setup.posWeight, setup.hiddenUnits, setup.lossScale);
-      parentPort!.postMessage({ type: 'ready' });
+      parentPort.postMessage({ type: 'ready' });
     })
-    .catch((error: unknown) => parentPort!.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) }));
-  parentPort!.on('message', (message: { type: string; mask: number }) => {
+    .catch((error: unknown) => parentPort.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) }));
+  parentPort.on('message', (message: { type: string; mask: number }) => {
     try {
       if (message.type === 'dispose') {
         if (shard) kernels.disposeDenseShard(tf, shard);
-        parentPort!.close();
+        parentPort.close();
         return;
       }
+      if (!shard) throw new Error('training step requested before the shard was ready');
       kernels.runDenseShard(tf, shard, parameters, message.mask < 0 ? null : masks[message.mask], gradients);
-      parentPort!.postMessage({ type: 'done' });
+      parentPort.postMessage({ type: 'done' });
     } catch (error) {
-      parentPort!.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) });
+      parentPort.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) });
     }
   });
 }

@@ -22,7 +22,12 @@ export function precomputePropagation(inputs: GraphInputs, steps: number): Propa
 }
 
 /** As precomputePropagation, with the sparse products spread over a worker pool. */
-export async function precomputePropagationWith(pool: SpmmPool, inputs: GraphInputs, steps: number, cancel?: CancelSignal): Promise<PropagatedFeatures> {
+export async function precomputePropagationWith(
+  pool: SpmmPool,
+  inputs: GraphInputs,
+  steps: number,
+  cancel?: CancelSignal,
+): Promise<PropagatedFeatures> {
   const normalized = prepare(inputs, steps);
   const blocks: Float32Array[] = [inputs.features];
   for (let s = 1; s <= steps; s++) {

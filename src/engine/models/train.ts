@@ -26,7 +26,12 @@ export interface TrainOptions {
   parallel?: boolean;
 }
 
-export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, settings: ModelSettings, options: TrainOptions = {}): Promise<ModelOutput> {
+export async function trainAndPredict(
+  inputs: GraphInputs,
+  train: TrainingSet,
+  settings: ModelSettings,
+  options: TrainOptions = {},
+): Promise<ModelOutput> {
   validate(inputs, train, settings);
   await initTensorflow();
   const progress = options.progress ?? silentProgress;
@@ -39,7 +44,9 @@ export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, s
   let inputDim = inputs.featureDim;
   if (kind === 'sign') {
     const started = performance.now();
-    const propagated = usablePrecomputed(options.precomputed, inputs, settings.propagationSteps) ?? (await propagateForTraining(inputs, settings.propagationSteps, options.cancel));
+    const propagated =
+      usablePrecomputed(options.precomputed, inputs, settings.propagationSteps) ??
+      (await propagateForTraining(inputs, settings.propagationSteps, options.cancel));
     timings.propagate = (performance.now() - started) / 1000;
     progress.report('propagate', 1);
     modelInput = propagated.data;
@@ -50,7 +57,19 @@ export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, s
   const result =
     kind === 'gcn' || kind === 'sage'
       ? await trainGraphNetwork(kind, inputs, train, settings, weights, random, timings, progress, options.cancel)
-      : await trainDenseNetwork(modelInput, inputs.nodeCount, inputDim, train, settings, weights, random, timings, progress, options.cancel, options.parallel);
+      : await trainDenseNetwork(
+          modelInput,
+          inputs.nodeCount,
+          inputDim,
+          train,
+          settings,
+          weights,
+          random,
+          timings,
+          progress,
+          options.cancel,
+          options.parallel,
+        );
   return {
     logits: result.logits,
     classCount,
@@ -63,7 +82,11 @@ export async function trainAndPredict(inputs: GraphInputs, train: TrainingSet, s
   };
 }
 
-function usablePrecomputed(precomputed: PropagatedFeatures | undefined, inputs: GraphInputs, steps: number): PropagatedFeatures | undefined {
+function usablePrecomputed(
+  precomputed: PropagatedFeatures | undefined,
+  inputs: GraphInputs,
+  steps: number,
+): PropagatedFeatures | undefined {
   if (!precomputed) return undefined;
   const expectedDim = inputs.featureDim * (steps + 1);
   if (precomputed.steps !== steps || precomputed.dim !== expectedDim || precomputed.data.length !== inputs.nodeCount * expectedDim) {
@@ -85,7 +108,8 @@ function validate(inputs: GraphInputs, train: TrainingSet, settings: ModelSettin
   if (train.nodeIndex.length !== train.classIndex.length) {
     throw new Error(`training set has ${train.nodeIndex.length} nodes but ${train.classIndex.length} classes`);
   }
-  if (!Number.isInteger(train.classCount) || train.classCount < 1) throw new Error(`class count must be at least 1, got ${train.classCount}`);
+  if (!Number.isInteger(train.classCount) || train.classCount < 1)
+    throw new Error(`class count must be at least 1, got ${train.classCount}`);
   for (let i = 0; i < train.nodeIndex.length; i++) {
     const node = train.nodeIndex[i];
     const cls = train.classIndex[i];
@@ -96,7 +120,8 @@ function validate(inputs: GraphInputs, train: TrainingSet, settings: ModelSettin
     if (!Number.isInteger(value) || value < 1) throw new Error(`${name} must be a whole number ≥ 1, got ${value}`);
   };
   positiveWhole('hiddenUnits', settings.hiddenUnits);
-  if (!Number.isInteger(settings.epochs) || settings.epochs < 0) throw new Error(`epochs must be a whole number ≥ 0, got ${settings.epochs}`);
+  if (!Number.isInteger(settings.epochs) || settings.epochs < 0)
+    throw new Error(`epochs must be a whole number ≥ 0, got ${settings.epochs}`);
   if (!(settings.dropout >= 0 && settings.dropout < 1)) throw new Error(`dropout must be in [0, 1), got ${settings.dropout}`);
   if (!(settings.learningRate > 0)) throw new Error(`learningRate must be > 0, got ${settings.learningRate}`);
   if (!(settings.weightDecay >= 0)) throw new Error(`weightDecay must be ≥ 0, got ${settings.weightDecay}`);

@@ -75,7 +75,13 @@ export function initialWeights(
   return { weights, notes: grown > 0 ? [`warm start: ${grown} new class output(s) initialised`] : [], warmStarted: true };
 }
 
-function warmStartMismatch(previous: ModelWeights, kind: ModelKind, inputDim: number, hiddenUnits: number, classCount: number): string | null {
+function warmStartMismatch(
+  previous: ModelWeights,
+  kind: ModelKind,
+  inputDim: number,
+  hiddenUnits: number,
+  classCount: number,
+): string | null {
   if (previous.kind !== kind) return `previous weights are of kind ${previous.kind}, not ${kind}`;
   if (previous.inputDim !== inputDim) return `input dimension changed from ${previous.inputDim} to ${inputDim}`;
   if (previous.hiddenUnits !== hiddenUnits) return `hidden units changed from ${previous.hiddenUnits} to ${hiddenUnits}`;
@@ -91,7 +97,7 @@ function copyLeadingColumns(old: NamedTensor, fresh: NamedTensor, spec: Paramete
   const oldRows = old.shape.length === 2 ? old.shape[0] : 1;
   const fits = oldRows === rows && (spec.perClass ? oldColumns <= newColumns : oldColumns === newColumns);
   if (!fits || old.data.length !== oldRows * oldColumns) {
-    throw new Error(`warm start: tensor ${spec.name} has shape [${old.shape}], expected [${spec.shape}]`);
+    throw new Error(`warm start: tensor ${spec.name} has shape [${old.shape.join(', ')}], expected [${spec.shape.join(', ')}]`);
   }
   for (let r = 0; r < rows; r++) {
     fresh.data.set(old.data.subarray(r * oldColumns, (r + 1) * oldColumns), r * newColumns);

@@ -32,10 +32,25 @@ export interface PrefixFit {
   hiddenUnits: number;
   /** DOC threshold of each model class. */
   thresholds: Float32Array;
+  /** What the thresholds were fitted on, so a preview can refit them for another α. */
+  thresholdFit: ThresholdFit;
   noveltyRaw: Float32Array;
   noveltySmoothed: Float32Array;
   weights: ModelWeights;
   timings: Record<string, number>;
+}
+
+export interface ThresholdFit {
+  /** Rows × model classes outputs the Gaussian is fitted on (out-of-fold, or the model's own). */
+  probabilities: Float32Array;
+  rows: Int32Array;
+  classes: Int32Array;
+  scale: 'std' | 'mad';
+}
+
+/** Per-class DOC thresholds of a fit for a given α. */
+export function thresholdsFor(fit: ThresholdFit, classCount: number, alpha: number): Float32Array {
+  return (fit.scale === 'mad' ? docThresholdsRobust : docThresholds)(fit.probabilities, classCount, fit.rows, fit.classes, alpha);
 }
 
 export interface FitOptions {
@@ -119,14 +134,13 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
   }
   const scoreStarted = performance.now();
   const probabilities = sigmoid(output.logits);
-  const fitThresholds = settings.thresholdScale === 'mad' ? docThresholdsRobust : docThresholds;
-  const thresholds = fitThresholds(
-    thresholdSource === output.logits ? probabilities : thresholdSource,
-    classCount,
-    thresholdRows,
-    trainClass,
-    settings.alpha,
-  );
+  const thresholdFit: ThresholdFit = {
+    probabilities: thresholdSource === output.logits ? probabilities : thresholdSource,
+    rows: thresholdRows,
+    classes: trainClass,
+    scale: settings.thresholdScale,
+  };
+  const thresholds = thresholdsFor(thresholdFit, classCount, settings.alpha);
   let noveltyRaw: Float32Array;
   if (settings.noveltyMethod === 'msp') noveltyRaw = maxSoftmaxNovelty(output.logits, classCount);
   else if (settings.noveltyMethod === 'energy') noveltyRaw = energyNovelty(output.logits, classCount, settings.temperature);
@@ -148,6 +162,7 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
     embeddings: output.embeddings,
     hiddenUnits: output.hiddenUnits,
     thresholds,
+    thresholdFit,
     noveltyRaw,
     noveltySmoothed,
     weights: output.weights,

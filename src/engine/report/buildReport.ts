@@ -7,7 +7,7 @@ import type { CancelSignal, ProgressSink } from '../util/progress';
 import { throwIfCancelled } from '../util/progress';
 import { evaluateSlices, referenceFromLabels, type EvaluationReport, type ModelEvaluation, type PrefixCache, type ReferenceLabels } from '../pipeline/evaluateSlices';
 import { readTruthFile } from '../pipeline/referenceLabels';
-import type { RunSettings } from '../pipeline/runSettings';
+import { settingsHash, type RunSettings } from '../pipeline/runSettings';
 import { continualSummary } from './continualSummary';
 import { readCachedReport, reportCacheFolder, reportCacheKey, sha256OfFile, writeCachedReport } from './reportCache';
 import { REPORT_FORMAT_VERSION, type QualityReport, type WarmAgainstCold, type WarmColdRow } from './reportTypes';
@@ -113,6 +113,7 @@ export async function buildReport(dataset: Dataset, options: BuildReportOptions)
     },
     reference: { source: reference?.source ?? referenceFromLabels(dataset).source, sha256: referenceSha256 },
     settings,
+    settingsHash: settingsHash(settings),
     evaluation,
     continual: {
       graph: continualSummary(evaluation.graphModel.accuracyMatrix, sliceKeys, untrainedOf(untrained.graphModel)),

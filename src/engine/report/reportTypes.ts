@@ -94,6 +94,8 @@ export interface QualityReport {
   };
   reference: { source: string; sha256: string | null };
   settings: RunSettings;
+  /** settingsHash(settings): the name label changes carry for the settings that suggested them. */
+  settingsHash: string;
   evaluation: EvaluationReport;
   continual: { graph: ContinualSummary; baseline: ContinualSummary };
   warmAgainstCold: WarmAgainstCold;

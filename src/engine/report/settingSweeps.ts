@@ -52,7 +52,7 @@ export function sweepFigures(evaluation: ModelEvaluation, sliceKeys: readonly st
   };
 }
 
-async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, setting: number | 'all', label: string): Promise<SweepPoint> {
+async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, setting: number | 'all', label: string, stage: string): Promise<SweepPoint> {
   throwIfCancelled(ctx.cancel);
   const { plan, dataset } = ctx;
   const settings: RunSettings = { ...ctx.settings, ...changed, warmStart: plan.warmStart, thresholdFolds: plan.thresholdFolds, epochs: plan.epochs };
@@ -62,7 +62,7 @@ async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, sett
     compareColdStart: false,
     cache: ctx.cache,
     onlySlices,
-    progress: ctx.progress && { report: (stage, fraction) => ctx.progress?.report(`${label}: ${stage}`, fraction) },
+    progress: ctx.progress && { report: (inner, fraction) => ctx.progress?.report(`${stage}: ${inner}`, fraction) },
     cancel: ctx.cancel,
   });
   return { setting, label, graph: sweepFigures(evaluation.graphModel, plan.slices), baseline: sweepFigures(evaluation.baseline, plan.slices) };
@@ -70,12 +70,12 @@ async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, sett
 
 export async function historyWindowSweep(ctx: SweepContext): Promise<SettingSweep> {
   const points: SweepPoint[] = [];
-  for (const window of HISTORY_WINDOW_SWEEP) points.push(await sweepPoint(ctx, { historyWindow: window }, window, `history ${describeWindow(window)}`));
+  for (const window of HISTORY_WINDOW_SWEEP) points.push(await sweepPoint(ctx, { historyWindow: window }, window, describeWindow(window), `history window ${String(window)}`));
   return { parameter: 'historyWindow', points };
 }
 
 export async function labelRateSweep(ctx: SweepContext): Promise<SettingSweep> {
   const points: SweepPoint[] = [];
-  for (const rate of LABEL_RATE_SWEEP) points.push(await sweepPoint(ctx, { labelRate: rate }, rate, `label rate ${Math.round(rate * 100)}%`));
+  for (const rate of LABEL_RATE_SWEEP) points.push(await sweepPoint(ctx, { labelRate: rate }, rate, `${Math.round(rate * 100)}% of labels`, `label rate ${rate}`));
   return { parameter: 'labelRate', points };
 }

@@ -93,8 +93,8 @@ export class DecisionApplier {
     throw new Error(`the label files kept changing during ${maxAttempts} attempts; nothing was written by the last one`);
   }
 
-  private plan(request: ApplyRequest, rebase: boolean): Promise<PlanApplyOutcome> {
-    return vscode.window.withProgress(
+  private async plan(request: ApplyRequest, rebase: boolean): Promise<PlanApplyOutcome> {
+    return await vscode.window.withProgress(
       { location: vscode.ProgressLocation.Notification, title: `Planning the decisions for ${path.basename(request.folder)}`, cancellable: true },
       (progress, token) => this.services.client.request('planApply', { folder: request.folder, decisions: request.decisions, source: request.source, rebase }, { progress, token }),
     );

@@ -1,0 +1,66 @@
+import type { CliIo } from '../io';
+import { EXIT } from '../io';
+import { parseArgs, UsageError, type CommandSpec, type ParsedArgs } from '../args';
+import { reportError } from '../command';
+import { RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs } from '../runSettingsFlags';
+import { stageProgress } from '../progressLine';
+import { loadDataset } from '../../engine/dataset/load';
+import { writeFileAtomic } from '../../engine/io/atomicWrite';
+import { defaultDoubtFolds, findDoubtfulLabels } from '../../engine/secondLook/doubts';
+import { formatDoubtsTable } from '../../engine/secondLook/formatReports';
+
+// Rejection and smoothing settings play no part here, so their flags are not offered.
+const USED_SETTING_FLAGS = ['slice', 'history', 'model', 'seed', 'epochs'];
+
+export const spec: CommandSpec = {
+  name: 'doubts',
+  summary: 'Flag curated labels that models trained without them, and their neighbours, disagree with.',
+  positionals: [{ name: 'folder' }],
+  flags: [
+    {
+      name: 'folds',
+      value: 'K',
+      description: `Cross-fitting folds: each label is judged by a model trained on the other folds (default ${defaultDoubtFolds}).`,
+    },
+    { name: 'all', description: 'List every checked label, not only the doubtful ones.' },
+    { name: 'out', value: 'FILE', description: 'Also write the report (JSON, see docs/second-look.md) to FILE.' },
+    { name: 'json', description: 'Print the report as one JSON object instead of a table.' },
+    ...RUN_SETTING_FLAGS.filter((f) => USED_SETTING_FLAGS.includes(f.name)),
+  ],
+  details:
+    'Checks the curated labels of the history window of the slice (default the newest slice). A label is doubtful when its score is above 0.5 (the out-of-fold outputs and the labelled neighbours lean towards another class) or confident learning counts it off the diagonal of its confident joint.\nNothing is changed: resolve each doubt in the review panel or with a decisions file (move-members or keep-label).',
+};
+
+export function foldsFromArgs(parsed: ParsedArgs): number {
+  const raw = parsed.value('folds');
+  if (raw === undefined) return defaultDoubtFolds;
+  const folds = Number(raw);
+  if (raw.trim() === '' || !Number.isInteger(folds) || folds < 2) throw new UsageError(`--folds must be a whole number ≥ 2, got "${raw}"`);
+  return folds;
+}
+
+export async function run(args: string[], io: CliIo): Promise<number> {
+  let folder = '';
+  try {
+    const parsed = parseArgs(args, spec);
+    folder = parsed.positionals[0];
+    const settings = runSettingsFromArgs(parsed);
+    const folds = foldsFromArgs(parsed);
+    const dataset = await loadDataset(folder, { cancel: io.cancel });
+    const slice = sliceFromArgs(parsed, dataset);
+    const report = await findDoubtfulLabels(dataset, settings, {
+      slice,
+      folds,
+      keep: parsed.has('all') ? 'all' : 'doubtful',
+      progress: parsed.has('json') ? undefined : stageProgress(io),
+      cancel: io.cancel,
+    });
+    const json = JSON.stringify(report, null, 2) + '\n';
+    const out = parsed.value('out');
+    if (out !== undefined) await writeFileAtomic(out, json);
+    io.stdout(parsed.has('json') ? json : formatDoubtsTable(report));
+    return EXIT.ok;
+  } catch (error) {
+    return reportError(error, io, spec, folder);
+  }
+}
