@@ -256,7 +256,7 @@ function sweepSeries(style: ModelStyle, sweep: SettingSweep, x: (f: SweepModelFi
 function sweepTable(caption: string, sweep: SettingSweep, metric: string): string {
   return htmlTable(
     caption,
-    ['Setting', 'Graph acc', 'MLP acc', 'Graph F1', 'MLP F1', 'Training nodes', 'Graph time', 'MLP time'],
+    ['Setting', 'Graph acc', 'MLP acc', 'Graph F1', 'MLP F1', 'Nodes', 'Graph s', 'MLP s'],
     sweep.points.map((p) => [
       p.label,
       metricCell(p.graph.meanAccuracy, `${metric}-graph-${String(p.setting)}`),
@@ -264,8 +264,8 @@ function sweepTable(caption: string, sweep: SettingSweep, metric: string): strin
       metricCell(p.graph.meanMacroF1),
       metricCell(p.baseline.meanMacroF1),
       { text: p.graph.meanTrainingNodes.toFixed(1), value: p.graph.meanTrainingNodes },
-      { text: seconds(p.graph.trainSeconds), value: p.graph.trainSeconds },
-      { text: seconds(p.baseline.trainSeconds), value: p.baseline.trainSeconds },
+      { text: p.graph.trainSeconds.toFixed(2), value: p.graph.trainSeconds },
+      { text: p.baseline.trainSeconds.toFixed(2), value: p.baseline.trainSeconds },
     ]),
   );
 }

@@ -99,7 +99,7 @@ export class GraphProblem {
       const kernel = args[0] as tf.Tensor2D;
       return {
         value: tf.matMul(this.features, kernel),
-        gradFunc: (dy: tf.Tensor) => tf.matMul(this.featuresTransposed, dy as tf.Tensor2D),
+        gradFunc: (dy: tf.Tensor) => tf.matMul(this.featuresTransposed, dy),
       };
     });
     return op(w) as tf.Tensor2D;

@@ -49,6 +49,8 @@ export interface FoldObservation {
   training: TrainingSet;
   /** Rows (indices into trainLocal) this fold's model scored. */
   heldOutRows: Int32Array;
+  /** Their node indices in the inputs (trainLocal of those rows). */
+  heldOutNodes: Int32Array;
   /** The fold model's logits for every node of the inputs. */
   logits: Float32Array;
 }
@@ -76,7 +78,13 @@ export async function outOfFoldProbabilities(request: CrossFitRequest): Promise<
       { ...request.settings, seed: request.settings.seed + 101 * (f + 1) },
       { precomputed: request.precomputed, cancel: request.cancel },
     );
-    request.observeFold?.({ fold: f, training, heldOutRows: Int32Array.from(held), logits: output.logits });
+    request.observeFold?.({
+      fold: f,
+      training,
+      heldOutRows: Int32Array.from(held),
+      heldOutNodes: Int32Array.from(held, (i) => trainLocal[i]),
+      logits: output.logits,
+    });
     for (const i of held) {
       const node = trainLocal[i];
       result.set(sigmoid(output.logits.subarray(node * classCount, (node + 1) * classCount)), i * classCount);
