@@ -24,14 +24,19 @@ function generate(nodes: number, features: number, edgesPerNode: number): string
   return folder;
 }
 
-function torchAvailable(): boolean {
-  return spawnSync('python3', ['-c', 'import torch'], { stdio: 'ignore' }).status === 0;
+/** Debian's python3-torch lives under /usr/bin/python3, which another python3 on PATH may shadow. */
+function torchPython(): string | null {
+  for (const python of ['/usr/bin/python3', 'python3']) {
+    if (spawnSync(python, ['-c', 'import torch'], { stdio: 'ignore' }).status === 0) return python;
+  }
+  return null;
 }
 
 function runTorch(folder: string): Record<string, number> | null {
   const script = path.resolve(projectRoot, '..', 'shared', 'reference', 'torch_pipeline.py');
-  if (!existsSync(script) || !torchAvailable()) return null;
-  const result = spawnSync('python3', [script, folder, '--threads', '2'], { encoding: 'utf8', env: { ...process.env } });
+  const python = torchPython();
+  if (!existsSync(script) || !python) return null;
+  const result = spawnSync(python, [script, folder, '--threads', '2'], { encoding: 'utf8', env: { ...process.env } });
   if (result.status !== 0) return null;
   const stages: Record<string, number> = {};
   for (const line of result.stdout.split('\n')) {

@@ -6,6 +6,7 @@
 // Reference (FIELD-NOTES.md, PyTorch 1.13, 2 threads): 112 ms per step for 20,000 × 128 → 64 → 10;
 // 18.4 s for 200 epochs of sign on 100,000 nodes × 128 features (1.8 s to propagate).
 import * as tf from '@tensorflow/tfjs';
+import { availableParallelism, loadavg } from 'node:os';
 import { addTransposedProduct, gatherMatMul, matMulTransposedRight } from '../src/engine/dense/matmul';
 import { buildAdjacency } from '../src/engine/graph/csr';
 import { AdamOptimizer } from '../src/engine/models/adam';
@@ -236,6 +237,13 @@ function inventedGraph(nodeCount: number, featureDim: number, degree: number, se
 
 export async function runTrainingBenchmarks(print: (line: string) => void, options: { full?: boolean } = {}): Promise<void> {
   const problem = invented(20_000, 128, 10, 7);
+  // Other work on the machine inflates every figure; the cpu-autograd line doubles as a gauge
+  // (FIELD-NOTES: 2,744 ms on an idle machine).
+  print(
+    `load average ${loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')} on ${availableParallelism()} cores`,
+  );
   print('# one training step, 20,000 × 128 → 64 → 10, sigmoid BCE + Adam (median ms; PyTorch 2 threads: 112)');
   await initTensorflow('cpu');
   print(`(a) tfjs-cpu autograd: ${autogradStep(problem, 3).toFixed(0)} ms`);
@@ -244,6 +252,16 @@ export async function runTrainingBenchmarks(print: (line: string) => void, optio
   print(`(b) tfjs-wasm matMul, hand-written backward: ${handWrittenTfStep(problem, 9).toFixed(0)} ms`);
   print(`(b2) as (b), rows split over 2 worker threads: ${(await parallelTfStep(problem, 9)).toFixed(0)} ms`);
   print(`(c) typed-array kernels, one thread: ${typedArrayStep(problem, 3).toFixed(0)} ms`);
+
+  print('# gcn and sage, full graph: 20,000 nodes × 128 features, ~200,000 edges, 50% labelled, 10 classes, 10 epochs');
+  const smaller = inventedGraph(20_000, 128, 20, 13);
+  const smallerRandom = new SeededRandom(14);
+  const smallerLabelled = Int32Array.from({ length: 20_000 }, (_, i) => i).filter(() => smallerRandom.next() < 0.5);
+  const smallerTrain = { nodeIndex: smallerLabelled, classIndex: smallerLabelled.map(() => smallerRandom.int(10)), classCount: 10 };
+  for (const kind of ['gcn', 'sage'] as const) {
+    const out = await trainAndPredict(smaller, smallerTrain, { ...defaultModelSettings, kind, epochs: 10 });
+    print(`${kind}: ${((out.timings.train / 10) * 1000).toFixed(0)} ms per epoch, predict ${out.timings.predict.toFixed(2)} s`);
+  }
 
   const nodeCount = 100_000;
   const epochs = options.full ? 200 : 10;

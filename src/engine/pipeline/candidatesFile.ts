@@ -90,7 +90,7 @@ export function previousCandidatesOf(file: CandidatesFile, dataset: Dataset, loc
       members: Int32Array.from(members),
       size: members.length,
       nearestMembers: [],
-    } as Candidate;
+    };
   });
 }
 

@@ -260,7 +260,10 @@ async function evaluateModel(ctx: ChainContext, settings: RunSettings): Promise<
   let forwardTransfer: number | null = null;
   if (ctx.options.compareColdStart && settings.warmStart) {
     const cold = await evaluateChain(ctx, { ...settings, warmStart: false }, `evaluate ${settings.model} (cold)`);
-    warmMinusCold = warm.metrics.map((m, i) => (m.accuracy !== null && cold.metrics[i].accuracy !== null ? m.accuracy - (cold.metrics[i].accuracy as number) : null));
+    warmMinusCold = warm.metrics.map((m, i) => {
+      const coldAccuracy = cold.metrics[i].accuracy;
+      return m.accuracy !== null && coldAccuracy !== null ? m.accuracy - coldAccuracy : null;
+    });
     const defined = warmMinusCold.filter((v): v is number => v !== null);
     forwardTransfer = defined.length ? defined.reduce((a, b) => a + b, 0) / defined.length : null;
   }
