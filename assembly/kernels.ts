@@ -330,18 +330,15 @@ export function matMulTransposedB(g: usize, w: usize, c: usize, rows: i32, cols:
 // once, as the reference's local (double) sums and Float32Array stores do.
 
 /** Lanes 0-1 and 2-3 of a float32 vector as two float64 vectors. */
-@inline
 function lowHalf(v: v128): v128 {
   return f64x2.promote_low_f32x4(v);
 }
 
-@inline
 function highHalf(v: v128): v128 {
   return f64x2.promote_low_f32x4(v128.shuffle<i64>(v, v, 1, 0));
 }
 
 /** Two float64 vectors rounded to one float32 vector. */
-@inline
 function rounded(low: v128, high: v128): v128 {
   return v128.shuffle<i64>(f32x4.demote_f64x2_zero(low), f32x4.demote_f64x2_zero(high), 0, 2);
 }
@@ -438,7 +435,16 @@ export function spmm(rowPtr: usize, colIndex: usize, values: usize, dense: usize
  * of dense into the rows of out its column indices name (out is overwritten). As the reference
  * spmmTransposed, every addition is done in float64 and stored as float32.
  */
-export function spmmTransposed(rowPtr: usize, colIndex: usize, values: usize, dense: usize, out: usize, rowCount: i32, colCount: i32, cols: i32): void {
+export function spmmTransposed(
+  rowPtr: usize,
+  colIndex: usize,
+  values: usize,
+  dense: usize,
+  out: usize,
+  rowCount: i32,
+  colCount: i32,
+  cols: i32,
+): void {
   const rowBytes = (<usize>cols) << 2;
   memory.fill(out, 0, <usize>colCount * rowBytes);
   for (let row = 0; row < rowCount; row++) {

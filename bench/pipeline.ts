@@ -95,7 +95,7 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
   print(`  rejected ${rejected} of ${fit.noveltySmoothed.length}`);
 }
 
-if (require.main === module) {
+if (process.argv[1] && /bench[\\/]pipeline\.ts$/.test(process.argv[1])) {
   const nodes = Number(process.argv[2] ?? 10000);
   runPipelineBenchmark(nodes, (line) => console.log(line)).catch((error) => {
     console.error(error);

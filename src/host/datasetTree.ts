@@ -57,7 +57,12 @@ export class DatasetTreeProvider implements vscode.TreeDataProvider<TreeNodeMode
   }
 
   getTreeItem(node: TreeNodeModel): vscode.TreeItem {
-    const collapsible = node.kind === 'dataset' ? vscode.TreeItemCollapsibleState.Expanded : node.children ? vscode.TreeItemCollapsibleState.Collapsed : vscode.TreeItemCollapsibleState.None;
+    const collapsible =
+      node.kind === 'dataset'
+        ? vscode.TreeItemCollapsibleState.Expanded
+        : node.children
+          ? vscode.TreeItemCollapsibleState.Collapsed
+          : vscode.TreeItemCollapsibleState.None;
     const item = new vscode.TreeItem(node.label, collapsible);
     item.id = node.id;
     item.description = node.description;

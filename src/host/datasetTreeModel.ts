@@ -88,7 +88,15 @@ export function datasetChildren(folder: string, overview: DatasetOverview): Tree
           tooltip: `${c.id}: ${c.topTerms.join(', ')}`,
           command: { command: openCandidateCommandId, title: 'Review Candidate', arguments: [{ folder, runId, candidateId: c.id }] },
         })),
-        ...(candidates.length > shown.length ? [{ id: key(`candidates:${runId}:more`), kind: 'message' as const, label: `… ${candidates.length - shown.length} more in the review panel` }] : []),
+        ...(candidates.length > shown.length
+          ? [
+              {
+                id: key(`candidates:${runId}:more`),
+                kind: 'message' as const,
+                label: `… ${candidates.length - shown.length} more in the review panel`,
+              },
+            ]
+          : []),
       ],
     });
   } else if (runs.length === 0) {

@@ -30,7 +30,11 @@ export class DatasetOverviewEditor implements vscode.CustomTextEditorProvider {
         const overview = await this.overviews.get(folder);
         if (mine === generation) panel.webview.html = overviewHtml(folder, overview, parts());
       } catch (error) {
-        if (mine === generation) panel.webview.html = overviewMessageHtml(`The dataset could not be read: ${error instanceof Error ? error.message : String(error)}`, parts());
+        if (mine === generation)
+          panel.webview.html = overviewMessageHtml(
+            `The dataset could not be read: ${error instanceof Error ? error.message : String(error)}`,
+            parts(),
+          );
       }
     };
     let stale = false;

@@ -3,7 +3,12 @@
 // these commands only). No script at all; styles inline under a nonce; colours from VS Code's theme.
 import type { DatasetOverview } from '../protocol/worker';
 
-export const overviewCommands = ['graphCurator.scoreSlice', 'graphCurator.openReviewPanel', 'graphCurator.openCandidate', 'graphCurator.validateDataset'] as const;
+export const overviewCommands = [
+  'graphCurator.scoreSlice',
+  'graphCurator.openReviewPanel',
+  'graphCurator.openCandidate',
+  'graphCurator.validateDataset',
+] as const;
 export type OverviewCommand = (typeof overviewCommands)[number];
 
 export function escapeHtml(text: string): string {
@@ -56,7 +61,10 @@ export function overviewHtml(folder: string, overview: DatasetOverview, parts: {
   const number = (n: number) => n.toLocaleString('en-US');
   const sliceRows = [...summary.slices]
     .reverse()
-    .map((s) => `<tr><td>${escapeHtml(s.key)}</td><td class="number">${number(s.nodes)}</td><td class="number">${number(s.edges)}</td><td class="number">${number(s.labelled)}</td></tr>`)
+    .map(
+      (s) =>
+        `<tr><td>${escapeHtml(s.key)}</td><td class="number">${number(s.nodes)}</td><td class="number">${number(s.edges)}</td><td class="number">${number(s.labelled)}</td></tr>`,
+    )
     .join('\n');
   const classRows = summary.classes
     .map((c) => `<tr><td>${escapeHtml(c.name)}</td><td>${escapeHtml(c.status)}</td><td class="number">${number(c.labelled)}</td></tr>`)

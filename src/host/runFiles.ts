@@ -24,7 +24,13 @@ export function pendingDecisionsPath(datasetFolder: string, runId: string): stri
 function looksLikeRunRecord(value: unknown): value is RunRecord {
   if (typeof value !== 'object' || value === null) return false;
   const record = value as Partial<RunRecord>;
-  return typeof record.runId === 'string' && typeof record.createdAt === 'string' && typeof record.slice === 'string' && typeof record.files === 'object' && record.files !== null;
+  return (
+    typeof record.runId === 'string' &&
+    typeof record.createdAt === 'string' &&
+    typeof record.slice === 'string' &&
+    typeof record.files === 'object' &&
+    record.files !== null
+  );
 }
 
 /** Complete runs (run.json present and readable), newest first. */

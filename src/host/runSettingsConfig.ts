@@ -74,11 +74,14 @@ export interface SettingsRead {
 }
 
 /**
- * Reads the run settings. `get(key)` returns the configured value or undefined when the user left
- * the default. Max-softmax and energy novelty have no DOC thresholds, so they reject a quantile
- * (the CLI's default for them, 0.1).
+ * Reads the run settings. `get(key)` returns the configured value (VS Code gives the contributed
+ * default when the user set none). Settings without a VS Code setting keep the engine's default,
+ * so the same choices give the same settings hash as the CLI's flags.
  */
-export function runSettingsFromConfiguration(get: (key: SettingKey) => unknown, defaults: RunSettings = hostDefaultRunSettings): SettingsRead {
+export function runSettingsFromConfiguration(
+  get: (key: SettingKey) => unknown,
+  defaults: RunSettings = hostDefaultRunSettings,
+): SettingsRead {
   const settings: RunSettings = { ...defaults };
   const problems: string[] = [];
   for (const key of Object.keys(settingKeys) as SettingKey[]) {
@@ -86,12 +89,13 @@ export function runSettingsFromConfiguration(get: (key: SettingKey) => unknown, 
     if (value === undefined || value === null) continue;
     const rule = rules[key];
     if (!rule.accepts(value)) {
-      problems.push(`graphCurator.${key} must be ${rule.expectation}, got ${JSON.stringify(value)}; using ${JSON.stringify(defaults[settingKeys[key]])}`);
+      problems.push(
+        `graphCurator.${key} must be ${rule.expectation}, got ${JSON.stringify(value)}; using ${JSON.stringify(defaults[settingKeys[key]])}`,
+      );
       continue;
     }
     (settings as unknown as Record<string, unknown>)[settingKeys[key]] = rule.convert ? rule.convert(value) : value;
   }
-  if (settings.noveltyMethod !== 'doc' && settings.rejectQuantile === null) settings.rejectQuantile = 0.1;
   return { settings, problems };
 }
 

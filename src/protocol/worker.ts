@@ -99,9 +99,7 @@ export interface ApplyPlanOutcome {
 }
 
 export type CommitLabelsOutcome =
-  | { outcome: 'committed'; commit: string; root: string; files: string[] }
-  | { outcome: 'nothing-to-commit' }
-  | { outcome: 'no-repository' };
+  { outcome: 'committed'; commit: string; root: string; files: string[] } | { outcome: 'nothing-to-commit' } | { outcome: 'no-repository' };
 
 export interface RequestParams {
   validate: { folder: string };
@@ -212,7 +210,8 @@ function isFolderParams(value: unknown): value is { folder: string } {
 }
 
 const isWhole = (value: unknown, minimum: number): boolean => typeof value === 'number' && Number.isInteger(value) && value >= minimum;
-const isNumberIn = (value: unknown, low: number, high: number): boolean => typeof value === 'number' && Number.isFinite(value) && value >= low && value <= high;
+const isNumberIn = (value: unknown, low: number, high: number): boolean =>
+  typeof value === 'number' && Number.isFinite(value) && value >= low && value <= high;
 
 /** Why `value` is not a complete RunSettings, or null when it is one. */
 export function runSettingsProblem(value: unknown): string | null {
@@ -226,7 +225,10 @@ export function runSettingsProblem(value: unknown): string | null {
     ['smoothingWeight', isNumberIn(value.smoothingWeight, 0, 1)],
     ['smoothingRounds', isWhole(value.smoothingRounds, 0)],
     ['noveltyMethod', ['doc', 'msp', 'energy'].includes(value.noveltyMethod as string)],
-    ['rejectQuantile', value.rejectQuantile === null || (isNumberIn(value.rejectQuantile, 0, 1) && value.rejectQuantile !== 0 && value.rejectQuantile !== 1)],
+    [
+      'rejectQuantile',
+      value.rejectQuantile === null || (isNumberIn(value.rejectQuantile, 0, 1) && value.rejectQuantile !== 0 && value.rejectQuantile !== 1),
+    ],
     ['temperature', isNumberIn(value.temperature, Number.MIN_VALUE, 1e6)],
     ['labelRate', isNumberIn(value.labelRate, Number.MIN_VALUE, 1)],
     ['warmStart', typeof value.warmStart === 'boolean'],
@@ -268,7 +270,8 @@ const paramGuards: { [K in RequestType]: Guard } = {
     typeof (value as Record<string, unknown>).source === 'string' &&
     ((value as Record<string, unknown>).rebase === undefined || typeof (value as Record<string, unknown>).rebase === 'boolean'),
   applyPlan: (value) => isRecord(value) && isRecord(value.plan) && typeof value.plan.folder === 'string',
-  exportDecisions: (value) => isRecord(value) && typeof value.file === 'string' && value.file.length > 0 && isDecisionsFileShape(value.decisions),
+  exportDecisions: (value) =>
+    isRecord(value) && typeof value.file === 'string' && value.file.length > 0 && isDecisionsFileShape(value.decisions),
   commitLabels: (value) =>
     isFolderParams(value) &&
     typeof (value as Record<string, unknown>).message === 'string' &&
@@ -281,8 +284,13 @@ const resultGuards: { [K in RequestType]: Guard } = {
   summary: isRecord,
   overview: (value) => isRecord(value) && isRecord(value.summary) && Array.isArray(value.runs),
   score: (value) =>
-    isRecord(value) && typeof value.runId === 'string' && typeof value.runFolder === 'string' && isRecord(value.record) && (value.candidatesFile === null || typeof value.candidatesFile === 'string'),
-  openReview: (value) => isRecord(value) && isRequestId(value.reviewId) && isRecord(value.session) && typeof value.previewAvailable === 'boolean',
+    isRecord(value) &&
+    typeof value.runId === 'string' &&
+    typeof value.runFolder === 'string' &&
+    isRecord(value.record) &&
+    (value.candidatesFile === null || typeof value.candidatesFile === 'string'),
+  openReview: (value) =>
+    isRecord(value) && isRequestId(value.reviewId) && isRecord(value.session) && typeof value.previewAvailable === 'boolean',
   reviewMessage: (value) => isRecord(value) && Array.isArray(value.posts) && (value.session === null || isRecord(value.session)),
   reviewDecisions: isDecisionsFileShape,
   closeReview: (value) => typeof value === 'boolean',

@@ -90,7 +90,8 @@ function frame(spec: { title: string; x: AxisSpec; y: AxisSpec }, xValues: numbe
     parts.push(`<line class="grid" x1="${MARGIN.left}" x2="${right}" y1="${num(y(t))}" y2="${num(y(t))}"/>`);
     parts.push(`<text class="tick" x="${MARGIN.left - 6}" y="${num(y(t) + 4)}" text-anchor="end">${escapeHtml(yFormat(t))}</text>`);
   }
-  if (yDomain[0] < 0 && yDomain[1] > 0) parts.push(`<line class="zero" x1="${MARGIN.left}" x2="${right}" y1="${num(y(0))}" y2="${num(y(0))}"/>`);
+  if (yDomain[0] < 0 && yDomain[1] > 0)
+    parts.push(`<line class="zero" x1="${MARGIN.left}" x2="${right}" y1="${num(y(0))}" y2="${num(y(0))}"/>`);
 
   let x: (value: number) => number;
   if (categories) {
@@ -118,15 +119,23 @@ function frame(spec: { title: string; x: AxisSpec; y: AxisSpec }, xValues: numbe
   }
   parts.push(`<line class="axis" x1="${MARGIN.left}" x2="${right}" y1="${bottom}" y2="${bottom}"/>`);
   parts.push(`<line class="axis" x1="${MARGIN.left}" x2="${MARGIN.left}" y1="${MARGIN.top}" y2="${bottom}"/>`);
-  parts.push(`<text class="axis-label" x="${(MARGIN.left + right) / 2}" y="${svgHeight - 6}" text-anchor="middle">${escapeHtml(spec.x.label)}</text>`);
-  parts.push(`<text class="axis-label" transform="translate(14,${(MARGIN.top + bottom) / 2}) rotate(-90)" text-anchor="middle">${escapeHtml(spec.y.label)}</text>`);
+  parts.push(
+    `<text class="axis-label" x="${(MARGIN.left + right) / 2}" y="${svgHeight - 6}" text-anchor="middle">${escapeHtml(spec.x.label)}</text>`,
+  );
+  parts.push(
+    `<text class="axis-label" transform="translate(14,${(MARGIN.top + bottom) / 2}) rotate(-90)" text-anchor="middle">${escapeHtml(spec.y.label)}</text>`,
+  );
   return { x, y, bottom, svgHeight, parts };
 }
 
 /** Lines with markers; a null value breaks the line. */
 export function lineChart(spec: LineChartSpec): string {
   const all = spec.series.flatMap((s) => s.points);
-  const f = frame(spec, all.map((p) => p.x), all.filter((p) => p.y !== null).map((p) => p.y as number));
+  const f = frame(
+    spec,
+    all.map((p) => p.x),
+    all.filter((p) => p.y !== null).map((p) => p.y as number),
+  );
   for (const series of spec.series) {
     const segments: string[] = [];
     let current = '';
@@ -154,7 +163,8 @@ export function lineChart(spec: LineChartSpec): string {
         }
         return `<g class="pt" data-tip="${escapeHtml(p.tip)}"><title>${escapeHtml(p.tip)}</title>${markerPath(series.marker, px, py)}</g>`;
       });
-    for (const l of labels.values()) marks.push(`<text class="point-label" x="${num(l.x + 7)}" y="${num(l.y - 7)}">${escapeHtml(l.text.join(', '))}</text>`);
+    for (const l of labels.values())
+      marks.push(`<text class="point-label" x="${num(l.x + 7)}" y="${num(l.y - 7)}">${escapeHtml(l.text.join(', '))}</text>`);
     f.parts.push(
       `<g class="series ${series.className}${series.dashed ? ' dashed' : ''}">${segments.map((d) => `<path class="line" d="${d}"/>`).join('')}${marks.join('')}</g>`,
     );
@@ -224,19 +234,28 @@ export function heatMap(spec: HeatMapSpec): string {
   const every = Math.ceil(n / 30);
   const showValues = cell >= 30;
   spec.rows.forEach((rowKey, i) => {
-    if (i % every === 0) parts.push(`<text class="tick" x="${left - 6}" y="${num(top + (i + 0.5) * cell + 4)}" text-anchor="end">${escapeHtml(rowKey)}</text>`);
+    if (i % every === 0)
+      parts.push(
+        `<text class="tick" x="${left - 6}" y="${num(top + (i + 0.5) * cell + 4)}" text-anchor="end">${escapeHtml(rowKey)}</text>`,
+      );
     spec.columns.forEach((_, j) => {
       const value = spec.values[i]?.[j] ?? null;
       const x = left + j * cell;
       const y = top + i * cell;
       const tip = escapeHtml(spec.tip(i, j, value));
       if (value === null) {
-        parts.push(`<g class="pt" data-tip="${tip}"><title>${tip}</title><rect class="cell-empty" x="${num(x + 0.5)}" y="${num(y + 0.5)}" width="${num(cell - 1)}" height="${num(cell - 1)}"/></g>`);
+        parts.push(
+          `<g class="pt" data-tip="${tip}"><title>${tip}</title><rect class="cell-empty" x="${num(x + 0.5)}" y="${num(y + 0.5)}" width="${num(cell - 1)}" height="${num(cell - 1)}"/></g>`,
+        );
         return;
       }
       const fill = viridis(value);
-      const text = showValues ? `<text class="cell-value" x="${num(x + cell / 2)}" y="${num(y + cell / 2 + 4)}" text-anchor="middle" fill="${textColourOn(fill)}">${value.toFixed(2)}</text>` : '';
-      parts.push(`<g class="pt" data-tip="${tip}"><title>${tip}</title><rect class="cell" x="${num(x)}" y="${num(y)}" width="${num(cell)}" height="${num(cell)}" fill="${fill}"/>${text}</g>`);
+      const text = showValues
+        ? `<text class="cell-value" x="${num(x + cell / 2)}" y="${num(y + cell / 2 + 4)}" text-anchor="middle" fill="${textColourOn(fill)}">${value.toFixed(2)}</text>`
+        : '';
+      parts.push(
+        `<g class="pt" data-tip="${tip}"><title>${tip}</title><rect class="cell" x="${num(x)}" y="${num(y)}" width="${num(cell)}" height="${num(cell)}" fill="${fill}"/>${text}</g>`,
+      );
     });
   });
   const labelY = top + gridHeight + 8;
@@ -249,15 +268,21 @@ export function heatMap(spec: HeatMapSpec): string {
         : `<text class="tick" x="${num(cx)}" y="${num(labelY + 10)}" text-anchor="middle">${escapeHtml(columnKey)}</text>`,
     );
   });
-  parts.push(`<text class="axis-label" x="${num(left + (cell * spec.columns.length) / 2)}" y="${num(height - 6)}" text-anchor="middle">${escapeHtml(spec.columnLabel)}</text>`);
-  parts.push(`<text class="axis-label" transform="translate(14,${num(top + gridHeight / 2)}) rotate(-90)" text-anchor="middle">${escapeHtml(spec.rowLabel)}</text>`);
+  parts.push(
+    `<text class="axis-label" x="${num(left + (cell * spec.columns.length) / 2)}" y="${num(height - 6)}" text-anchor="middle">${escapeHtml(spec.columnLabel)}</text>`,
+  );
+  parts.push(
+    `<text class="axis-label" transform="translate(14,${num(top + gridHeight / 2)}) rotate(-90)" text-anchor="middle">${escapeHtml(spec.rowLabel)}</text>`,
+  );
   // Colour key: 0 at the bottom, 1 at the top.
   const keyX = left + cell * spec.columns.length + 24;
   const keyHeight = Math.max(100, Math.min(gridHeight, 200));
   const steps = 20;
   for (let k = 0; k < steps; k++) {
     const t0 = k / steps;
-    parts.push(`<rect x="${keyX}" y="${num(top + keyHeight * (1 - (k + 1) / steps))}" width="12" height="${num(keyHeight / steps + 0.5)}" fill="${viridis(t0 + 0.5 / steps)}"/>`);
+    parts.push(
+      `<rect x="${keyX}" y="${num(top + keyHeight * (1 - (k + 1) / steps))}" width="12" height="${num(keyHeight / steps + 0.5)}" fill="${viridis(t0 + 0.5 / steps)}"/>`,
+    );
   }
   for (const t of [0, 0.5, 1]) parts.push(`<text class="tick" x="${keyX + 16}" y="${num(top + keyHeight * (1 - t) + 4)}">${t}</text>`);
   parts.push('</svg>');

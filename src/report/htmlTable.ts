@@ -22,7 +22,10 @@ export function htmlTable(caption: string, headers: string[], rows: CellInput[][
     .map((row) => {
       const cells = row.map((input, k) => {
         const cell = cellOf(input);
-        const attributes = [cell.value !== undefined ? ` data-value="${exact(cell.value)}"` : '', cell.metric ? ` data-metric="${escapeHtml(cell.metric)}"` : ''].join('');
+        const attributes = [
+          cell.value !== undefined ? ` data-value="${exact(cell.value)}"` : '',
+          cell.metric ? ` data-metric="${escapeHtml(cell.metric)}"` : '',
+        ].join('');
         return k === 0 ? `<th scope="row"${attributes}>${escapeHtml(cell.text)}</th>` : `<td${attributes}>${escapeHtml(cell.text)}</td>`;
       });
       return `<tr>${cells.join('')}</tr>`;

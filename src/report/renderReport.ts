@@ -29,7 +29,14 @@ export interface ReportParts {
 
 export function renderReportParts(report: QualityReport, options: RenderOptions): ReportParts {
   const nonce = escapeHtml(options.nonce);
-  const sections = [headerSection(report), summarySection(report), perSliceSections(report), matrixSections(report), warmColdSection(report), sweepSections(report)].join('\n');
+  const sections = [
+    headerSection(report),
+    summarySection(report),
+    perSliceSections(report),
+    matrixSections(report),
+    warmColdSection(report),
+    sweepSections(report),
+  ].join('\n');
   const footer = `<footer>Report format ${report.formatVersion}. Figures from evaluateSlices on ${escapeHtml(report.dataset.name)}; hover a mark for its exact values.</footer>`;
   return {
     head: `<style nonce="${nonce}">${reportCss(options.mode)}</style>`,
@@ -38,7 +45,9 @@ export function renderReportParts(report: QualityReport, options: RenderOptions)
 }
 
 export function newNonce(): string {
-  return randomBytes(16).toString('base64').replace(/[^A-Za-z0-9]/g, '');
+  return randomBytes(16)
+    .toString('base64')
+    .replace(/[^A-Za-z0-9]/g, '');
 }
 
 /** A whole HTML file that opens offline in any browser. */

@@ -46,8 +46,14 @@ export function headerSection(report: QualityReport): string {
   const slices = report.dataset.slices;
   const facts: [string, string][] = [
     ['Dataset', `${report.dataset.name} — ${report.dataset.folder}`],
-    ['Size', `${report.dataset.nodes} nodes, ${report.dataset.labelled} with a curated label, ${slices.length} time slices (${slices[0]?.key ?? '—'} to ${slices[slices.length - 1]?.key ?? '—'})`],
-    ['Reference', report.reference.sha256 ? `${report.reference.source} (sha256 ${report.reference.sha256.slice(0, 12)}…)` : report.reference.source],
+    [
+      'Size',
+      `${report.dataset.nodes} nodes, ${report.dataset.labelled} with a curated label, ${slices.length} time slices (${slices[0]?.key ?? '—'} to ${slices[slices.length - 1]?.key ?? '—'})`,
+    ],
+    [
+      'Reference',
+      report.reference.sha256 ? `${report.reference.source} (sha256 ${report.reference.sha256.slice(0, 12)}…)` : report.reference.source,
+    ],
     [
       'Settings',
       `model ${s.model}; history ${describeWindow(s.historyWindow)}; ${s.warmStart ? 'warm start' : 'cold start'}; label rate ${percent(s.labelRate, 0)}; ` +
@@ -69,7 +75,13 @@ export function headerSection(report: QualityReport): string {
   );
 }
 
-function summaryRow(name: string, key: string, evaluation: ModelEvaluation, continual: ContinualSummary, warmCold: number | null): CellInput[] {
+function summaryRow(
+  name: string,
+  key: string,
+  evaluation: ModelEvaluation,
+  continual: ContinualSummary,
+  warmCold: number | null,
+): CellInput[] {
   const slices = evaluation.perSlice;
   return [
     name,
@@ -91,8 +103,20 @@ export function summarySection(report: QualityReport): string {
     'Summary over all slices',
     ['Model', 'Mean accuracy', 'Mean macro-F1', 'Mean open-set F1', 'Mean AUROC', 'Mean rejected', 'ACC', 'BWT', 'FWT', 'Warm − cold'],
     [
-      summaryRow(styles.graph.name, 'graph', report.evaluation.graphModel, report.continual.graph, report.warmAgainstCold.meanDifference.graph),
-      summaryRow(styles.baseline.name, 'baseline', report.evaluation.baseline, report.continual.baseline, report.warmAgainstCold.meanDifference.baseline),
+      summaryRow(
+        styles.graph.name,
+        'graph',
+        report.evaluation.graphModel,
+        report.continual.graph,
+        report.warmAgainstCold.meanDifference.graph,
+      ),
+      summaryRow(
+        styles.baseline.name,
+        'baseline',
+        report.evaluation.baseline,
+        report.continual.baseline,
+        report.warmAgainstCold.meanDifference.baseline,
+      ),
     ],
     'summary',
   );
@@ -107,7 +131,14 @@ export function summarySection(report: QualityReport): string {
   );
 }
 
-function sliceLineChart(report: QualityReport, title: string, yLabel: string, pick: (m: SliceMetrics) => number | null, format: (v: number | null) => string, yDomain?: [number, number]): string {
+function sliceLineChart(
+  report: QualityReport,
+  title: string,
+  yLabel: string,
+  pick: (m: SliceMetrics) => number | null,
+  format: (v: number | null) => string,
+  yDomain?: [number, number],
+): string {
   const styles = modelStyles(report);
   const keys = report.evaluation.slices;
   const series = (style: ModelStyle, evaluation: ModelEvaluation): LineSeries => ({
@@ -115,7 +146,11 @@ function sliceLineChart(report: QualityReport, title: string, yLabel: string, pi
     className: style.className,
     marker: style.marker,
     dashed: style.dashed,
-    points: evaluation.perSlice.map((m, i) => ({ x: i, y: pick(m), tip: `${style.name}\nslice ${m.slice}: ${yLabel.toLowerCase()} ${format(pick(m))}\n${m.testNodes} test nodes, ${m.trainingNodes} training nodes` })),
+    points: evaluation.perSlice.map((m, i) => ({
+      x: i,
+      y: pick(m),
+      tip: `${style.name}\nslice ${m.slice}: ${yLabel.toLowerCase()} ${format(pick(m))}\n${m.testNodes} test nodes, ${m.trainingNodes} training nodes`,
+    })),
   });
   return (
     legendOf([styles.graph, styles.baseline]) +
@@ -128,13 +163,25 @@ function sliceLineChart(report: QualityReport, title: string, yLabel: string, pi
   );
 }
 
-function perSliceTable(report: QualityReport, caption: string, metric: string, pick: (m: SliceMetrics) => number | null, format: (v: number | null) => string = figure): string {
+function perSliceTable(
+  report: QualityReport,
+  caption: string,
+  metric: string,
+  pick: (m: SliceMetrics) => number | null,
+  format: (v: number | null) => string = figure,
+): string {
   const g = report.evaluation.graphModel.perSlice;
   const b = report.evaluation.baseline.perSlice;
   return htmlTable(
     caption,
     ['Slice', 'Test nodes', 'Unseen', 'Graph', 'MLP'],
-    g.map((m, i) => [m.slice, String(m.testNodes), String(m.unseenTestNodes), metricCell(pick(m), `${metric}-graph-${m.slice}`, format), metricCell(pick(b[i]), `${metric}-baseline-${m.slice}`, format)]),
+    g.map((m, i) => [
+      m.slice,
+      String(m.testNodes),
+      String(m.unseenTestNodes),
+      metricCell(pick(m), `${metric}-graph-${m.slice}`, format),
+      metricCell(pick(b[i]), `${metric}-baseline-${m.slice}`, format),
+    ]),
   );
 }
 
@@ -144,7 +191,7 @@ export function perSliceSections(report: QualityReport): string {
     figureBlock(
       'accuracy',
       'Accuracy per slice',
-      'Closed-set accuracy on each slice\'s test nodes whose class the model knows.',
+      "Closed-set accuracy on each slice's test nodes whose class the model knows.",
       sliceLineChart(report, 'Accuracy per slice, graph model and MLP baseline', 'Accuracy', (m) => m.accuracy, figure),
       perSliceTable(report, 'Accuracy per slice', 'accuracy', (m) => m.accuracy),
     ),
@@ -165,7 +212,7 @@ export function perSliceSections(report: QualityReport): string {
     figureBlock(
       'rejection',
       'Rejection rate per slice',
-      'Share of the slice\'s nodes the model rejects as fitting no known class (sent to review as possible new classes).',
+      "Share of the slice's nodes the model rejects as fitting no known class (sent to review as possible new classes).",
       sliceLineChart(report, 'Rejection rate per slice', 'Rejected share', rate, (v) => percent(v)),
       perSliceTable(report, 'Rejection rate per slice', 'rejection', rate, (v) => percent(v)),
     ),
@@ -195,18 +242,23 @@ export function matrixSections(report: QualityReport): string {
         rows: keys,
         columns: keys,
         values: evaluation.accuracyMatrix,
-        tip: (i, j, v) => `${style.name}\nfitted through ${keys[i]}, tested on ${keys[j]}: ${v === null ? 'no test nodes' : `accuracy ${figure(v)}`}`,
+        tip: (i, j, v) =>
+          `${style.name}\nfitted through ${keys[i]}, tested on ${keys[j]}: ${v === null ? 'no test nodes' : `accuracy ${figure(v)}`}`,
       }),
       matrixTable(`Accuracy matrix, ${style.name}`, keys, evaluation.accuracyMatrix, metric),
     );
-  return block('matrix-graph', styles.graph, report.evaluation.graphModel, 'matrix-graph') + block('matrix-baseline', styles.baseline, report.evaluation.baseline, 'matrix-baseline');
+  return (
+    block('matrix-graph', styles.graph, report.evaluation.graphModel, 'matrix-graph') +
+    block('matrix-baseline', styles.baseline, report.evaluation.baseline, 'matrix-baseline')
+  );
 }
 
 export function warmColdSection(report: QualityReport): string {
   const styles = modelStyles(report);
   const keys = report.evaluation.slices;
   const rows = report.warmAgainstCold;
-  const tips = (style: ModelStyle, list: WarmColdRow[]) => list.map((r) => `${style.name}\nslice ${r.slice}: warm ${figure(r.warm)}, cold ${figure(r.cold)}, warm − cold ${figure(r.difference)}`);
+  const tips = (style: ModelStyle, list: WarmColdRow[]) =>
+    list.map((r) => `${style.name}\nslice ${r.slice}: warm ${figure(r.warm)}, cold ${figure(r.cold)}, warm − cold ${figure(r.difference)}`);
   const chart =
     legendOf([styles.graph, styles.baseline], 'bar') +
     groupedBarChart({
@@ -214,8 +266,18 @@ export function warmColdSection(report: QualityReport): string {
       x: { label: 'Time slice', categories: keys },
       y: { label: 'Accuracy, warm − cold' },
       series: [
-        { name: styles.graph.name, className: styles.graph.className, values: rows.graph.map((r) => r.difference), tips: tips(styles.graph, rows.graph) },
-        { name: styles.baseline.name, className: styles.baseline.className, values: rows.baseline.map((r) => r.difference), tips: tips(styles.baseline, rows.baseline) },
+        {
+          name: styles.graph.name,
+          className: styles.graph.className,
+          values: rows.graph.map((r) => r.difference),
+          tips: tips(styles.graph, rows.graph),
+        },
+        {
+          name: styles.baseline.name,
+          className: styles.baseline.className,
+          values: rows.baseline.map((r) => r.difference),
+          tips: tips(styles.baseline, rows.baseline),
+        },
       ],
     });
   const table = htmlTable(
@@ -223,19 +285,33 @@ export function warmColdSection(report: QualityReport): string {
     ['Slice', 'Graph warm', 'Graph cold', 'Graph Δ', 'MLP warm', 'MLP cold', 'MLP Δ'],
     rows.graph.map((g, i) => {
       const b = rows.baseline[i];
-      return [g.slice, metricCell(g.warm), metricCell(g.cold), metricCell(g.difference, `warm-cold-graph-${g.slice}`), metricCell(b.warm), metricCell(b.cold), metricCell(b.difference, `warm-cold-baseline-${g.slice}`)];
+      return [
+        g.slice,
+        metricCell(g.warm),
+        metricCell(g.cold),
+        metricCell(g.difference, `warm-cold-graph-${g.slice}`),
+        metricCell(b.warm),
+        metricCell(b.cold),
+        metricCell(b.difference, `warm-cold-baseline-${g.slice}`),
+      ];
     }),
   );
   return figureBlock(
     'warm-cold',
     'Warm against cold start',
-    'Per slice: accuracy when the model starts from the previous slice\'s weights minus when it starts from a fresh initialisation, all else equal. Above zero, carrying the model forward helps.',
+    "Per slice: accuracy when the model starts from the previous slice's weights minus when it starts from a fresh initialisation, all else equal. Above zero, carrying the model forward helps.",
     chart,
     table,
   );
 }
 
-function sweepSeries(style: ModelStyle, sweep: SettingSweep, x: (f: SweepModelFigures, setting: number | 'all') => number, pick: 'graph' | 'baseline', pointLabels: boolean): LineSeries {
+function sweepSeries(
+  style: ModelStyle,
+  sweep: SettingSweep,
+  x: (f: SweepModelFigures, setting: number | 'all') => number,
+  pick: 'graph' | 'baseline',
+  pointLabels: boolean,
+): LineSeries {
   return {
     name: style.name,
     className: style.className,
@@ -282,7 +358,10 @@ export function sweepSections(report: QualityReport): string {
       title: 'Accuracy against replayed labelled nodes, by history window',
       x: { label: 'Training nodes per slice (labelled nodes replayed from the history window)' },
       y: { label: 'Mean accuracy', domain: [0, 1] },
-      series: [sweepSeries(styles.graph, history, (f) => f.meanTrainingNodes, 'graph', true), sweepSeries(styles.baseline, history, (f) => f.meanTrainingNodes, 'baseline', false)],
+      series: [
+        sweepSeries(styles.graph, history, (f) => f.meanTrainingNodes, 'graph', true),
+        sweepSeries(styles.baseline, history, (f) => f.meanTrainingNodes, 'baseline', false),
+      ],
     });
   const timeChart =
     legendOf([styles.graph, styles.baseline], 'bar') +
@@ -294,7 +373,10 @@ export function sweepSections(report: QualityReport): string {
         name: styles[key].name,
         className: styles[key].className,
         values: history.points.map((p) => p[key].trainSeconds),
-        tips: history.points.map((p) => `${styles[key].name}, ${p.label}\n${seconds(p[key].trainSeconds)} training, ${p[key].meanTrainingNodes.toFixed(1)} training nodes per slice`),
+        tips: history.points.map(
+          (p) =>
+            `${styles[key].name}, ${p.label}\n${seconds(p[key].trainSeconds)} training, ${p[key].meanTrainingNodes.toFixed(1)} training nodes per slice`,
+        ),
       })),
     });
   const rates = report.labelRateSweep;
@@ -302,9 +384,12 @@ export function sweepSections(report: QualityReport): string {
     legendOf([styles.graph, styles.baseline]) +
     lineChart({
       title: 'Accuracy against label rate',
-      x: { label: 'Share of the window\'s labels used for training', domain: [0, 1], format: (v) => `${Math.round(v * 100)}%` },
+      x: { label: "Share of the window's labels used for training", domain: [0, 1], format: (v) => `${Math.round(v * 100)}%` },
       y: { label: 'Mean accuracy', domain: [0, 1] },
-      series: [sweepSeries(styles.graph, rates, (_, s) => s as number, 'graph', false), sweepSeries(styles.baseline, rates, (_, s) => s as number, 'baseline', false)],
+      series: [
+        sweepSeries(styles.graph, rates, (_, s) => s as number, 'graph', false),
+        sweepSeries(styles.baseline, rates, (_, s) => s as number, 'baseline', false),
+      ],
     });
   return [
     figureBlock(
@@ -314,7 +399,13 @@ export function sweepSections(report: QualityReport): string {
       historyChart,
       sweepTable('History window sweep', history, 'history'),
     ),
-    figureBlock('history-time', 'History window: training time', `Training time grows with the replayed nodes. ${escapeHtml(planText)}`, timeChart, sweepTable('History window sweep', history, 'history-time')),
+    figureBlock(
+      'history-time',
+      'History window: training time',
+      `Training time grows with the replayed nodes. ${escapeHtml(planText)}`,
+      timeChart,
+      sweepTable('History window sweep', history, 'history-time'),
+    ),
     figureBlock(
       'label-rate-sweep',
       'Label rate',

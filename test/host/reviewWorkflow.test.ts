@@ -14,7 +14,8 @@ import { LabelFilesConflictError, RequestCancelledError } from '../../src/host/e
 import { listRunRecords, pendingDecisionsPath, runToReview } from '../../src/host/runFiles';
 import { WorkerConnection } from '../../src/host/workerConnection';
 import type { HostToWebviewMessage, SnapshotMessage } from '../../src/protocol/webview';
-import type { ScoreOutcome } from '../../src/protocol/worker';
+import type { ReviewSessionJson, ScoreOutcome } from '../../src/protocol/worker';
+import { ReviewRelay, type ReviewEngine } from '../../src/host/review/reviewRelay';
 import { buildNodeBundle } from './fixtures/buildBundle';
 
 const fastSettings: RunSettings = { ...defaultRunSettings, epochs: 20, thresholdFolds: 0 };
@@ -25,7 +26,12 @@ function snapshotOf(posts: HostToWebviewMessage[]): SnapshotMessage['snapshot'] 
   return snapshot.snapshot;
 }
 
-const gitIdentity: Record<string, string> = { GIT_AUTHOR_NAME: 'Curator', GIT_AUTHOR_EMAIL: 'curator@example.org', GIT_COMMITTER_NAME: 'Curator', GIT_COMMITTER_EMAIL: 'curator@example.org' };
+const gitIdentity: Record<string, string> = {
+  GIT_AUTHOR_NAME: 'Curator',
+  GIT_AUTHOR_EMAIL: 'curator@example.org',
+  GIT_COMMITTER_NAME: 'Curator',
+  GIT_COMMITTER_EMAIL: 'curator@example.org',
+};
 
 function git(cwd: string, ...args: string[]): string {
   return execFileSync('git', args, { cwd, encoding: 'utf8', env: { ...process.env, ...gitIdentity } });
@@ -100,12 +106,16 @@ describe('review workflow through the engine worker (real bundle)', function () 
 
     const decided = await connection.request('reviewMessage', {
       reviewId: opened.reviewId,
-      message: { type: 'decide', requestId: 1, decision: { kind: 'name-new-class', candidateId: candidate.id, className: 'bird-strike', description: 'birds hit the blades' } },
+      message: {
+        type: 'decide',
+        requestId: 1,
+        decision: { kind: 'name-new-class', candidateId: candidate.id, className: 'bird-strike', description: 'birds hit the blades' },
+      },
     });
     assert.ok(decided.session, 'a decision changes the session');
     assert.equal(decided.session.decisions.length, 1);
     assert.equal(snapshotOf(decided.posts).pending.length, 1);
-    const saved = JSON.parse(await fs.readFile(persistPath, 'utf8'));
+    const saved = JSON.parse(await fs.readFile(persistPath, 'utf8')) as unknown;
     assert.deepEqual(saved, decided.session, 'the worker wrote the session it returned');
 
     const preview = await connection.request('reviewMessage', {
@@ -118,7 +128,10 @@ describe('review workflow through the engine worker (real bundle)', function () 
     assert.ok(Math.abs(answer.preview.rejected - answer.preview.scored / 2) <= 1, `${answer.preview.rejected} of ${answer.preview.scored}`);
     assert.equal(preview.session, null, 'a preview does not change the session');
 
-    const refused = await connection.request('reviewMessage', { reviewId: opened.reviewId, message: { type: 'decide', requestId: 3, decision: { kind: 'dismiss' } } });
+    const refused = await connection.request('reviewMessage', {
+      reviewId: opened.reviewId,
+      message: { type: 'decide', requestId: 3, decision: { kind: 'dismiss' } },
+    });
     assert.deepEqual(
       refused.posts.map((p) => p.type),
       ['error'],
@@ -135,21 +148,86 @@ describe('review workflow through the engine worker (real bundle)', function () 
   });
 
   it('restores from the host copy when nothing may be written (Restricted Mode), and ignores a session of another run', async () => {
-    const saved = JSON.parse(await fs.readFile(pendingDecisionsPath(folder, scored.runId), 'utf8'));
+    const saved = JSON.parse(await fs.readFile(pendingDecisionsPath(folder, scored.runId), 'utf8')) as ReviewSessionJson;
     const fromState = await connection.request('openReview', { folder, runId: scored.runId, persistPath: null, saved });
     assert.equal(fromState.restoredFrom, 'state');
     assert.equal(fromState.session.decisions.length, 1);
     await connection.request('closeReview', { reviewId: fromState.reviewId });
 
-    const foreign = await connection.request('openReview', { folder, runId: scored.runId, persistPath: null, saved: { ...saved, runId: 'another-run' } });
+    const foreign = await connection.request('openReview', {
+      folder,
+      runId: scored.runId,
+      persistPath: null,
+      saved: { ...saved, runId: 'another-run' },
+    });
     assert.equal(foreign.restoredFrom, 'none');
     assert.match(foreign.restoreProblem ?? '', /is for run another-run/);
     assert.equal(foreign.session.decisions.length, 0);
     await connection.request('closeReview', { reviewId: foreign.reviewId });
   });
 
+  it('routes the panel messages through ReviewRelay: checked, forwarded to the worker or kept on the host', async () => {
+    const posts: HostToWebviewMessage[] = [];
+    const saved: ReviewSessionJson[] = [];
+    const onHost: string[] = [];
+    const engine: ReviewEngine = {
+      openReview: (params) => connection.request('openReview', params),
+      message: (reviewId, message) => connection.request('reviewMessage', { reviewId, message }),
+      decisions: (reviewId) => connection.request('reviewDecisions', { reviewId }),
+      close: (reviewId) => connection.request('closeReview', { reviewId }),
+    };
+    const relay = new ReviewRelay(
+      engine,
+      {
+        post: (message) => posts.push(message),
+        saveSession: (session) => saved.push(session),
+        exportDecisions: (file) => {
+          onHost.push(`export ${file.decisions.length}`);
+          return Promise.resolve('exported');
+        },
+        applyDecisions: (file) => {
+          onHost.push(`apply ${file.decisions.length}`);
+          return Promise.resolve('applied');
+        },
+        openNode: (nodeId) => onHost.push(`open ${nodeId}`),
+        log: () => undefined,
+      },
+      { folder, runId: scored.runId, persistPath: null },
+    );
+    await relay.receive({ type: 'ready' });
+    const queue = snapshotOf(posts).queue;
+    await relay.receive({ type: 'decide', requestId: 1, decision: { kind: 'dismiss', candidateId: queue[0].id } });
+    assert.equal(snapshotOf(posts).pending.length, 1);
+    assert.equal(saved[saved.length - 1].decisions.length, 1, 'the host keeps every changed session');
+    posts.length = 0;
+    await relay.receive({ type: 'decide', requestId: 2, decision: { kind: 'dismiss', candidateId: 42 } });
+    await relay.receive({ type: 'bogus' });
+    assert.deepEqual(
+      posts.map((p) => p.type),
+      ['error', 'error'],
+    );
+    await relay.receive({ type: 'applyDecisions', requestId: 3 });
+    await relay.receive({ type: 'exportDecisions', requestId: 4 });
+    await relay.receive({ type: 'openNode', nodeId: 'R000001' });
+    assert.deepEqual(onHost, ['apply 1', 'export 1', 'open R000001']);
+    assert.deepEqual(
+      posts.slice(2).map((p) => (p.type === 'done' ? `${p.requestId} ${p.message}` : p.type)),
+      ['3 applied', '4 exported'],
+    );
+    await relay.receive({ type: 'undo', requestId: 5 });
+    assert.equal((await relay.decisions()).decisions.length, 0);
+    posts.length = 0;
+    await relay.receive({ type: 'applyDecisions', requestId: 6 });
+    assert.deepEqual(posts, [{ type: 'error', requestId: 6, message: 'no pending decisions to apply' }]);
+    await relay.dispose();
+  });
+
   it('plans, applies and commits the pending decisions; a label file changed meanwhile is a conflict', async () => {
-    const opened = await connection.request('openReview', { folder, runId: scored.runId, persistPath: pendingDecisionsPath(folder, scored.runId) });
+    const opened = await connection.request('openReview', {
+      folder,
+      runId: scored.runId,
+      persistPath: pendingDecisionsPath(folder, scored.runId),
+    });
     const decisions = await connection.request('reviewDecisions', { reviewId: opened.reviewId });
     assert.equal(decisions.runId, scored.runId);
     assert.equal(decisions.decisions.length, 1);
@@ -166,7 +244,10 @@ describe('review workflow through the engine worker (real bundle)', function () 
     const touched = original.split('\n');
     touched.splice(1, 1);
     await fs.writeFile(labelsPath, touched.join('\n'));
-    await assert.rejects(connection.request('applyPlan', { plan: planned.plan }), (error: unknown) => error instanceof LabelFilesConflictError && error.files.includes('labels.csv'));
+    await assert.rejects(
+      connection.request('applyPlan', { plan: planned.plan }),
+      (error: unknown) => error instanceof LabelFilesConflictError && error.files.includes('labels.csv'),
+    );
     await fs.writeFile(labelsPath, original);
 
     git(folder, 'init', '--quiet');
@@ -186,7 +267,11 @@ describe('review workflow through the engine worker (real bundle)', function () 
     assert.equal(committed.outcome, 'committed');
     assert.ok(committed.outcome === 'committed');
     assert.deepEqual(committed.files.sort(), ['classes.json', 'label-log.jsonl', 'labels.csv']);
-    assert.deepEqual(git(folder, 'diff', '--cached', '--name-only').trim().split('\n'), ['notes.txt'], 'the unrelated staged file is still staged, uncommitted');
+    assert.deepEqual(
+      git(folder, 'diff', '--cached', '--name-only').trim().split('\n'),
+      ['notes.txt'],
+      'the unrelated staged file is still staged, uncommitted',
+    );
     assert.equal(git(folder, 'log', '-1', '--format=%B').trim(), applied.commitMessage.trim());
     assert.deepEqual(await connection.request('commitLabels', { folder, message: 'again' }), { outcome: 'nothing-to-commit' });
     await connection.request('closeReview', { reviewId: opened.reviewId });
@@ -202,12 +287,16 @@ describe('review workflow through the engine worker (real bundle)', function () 
   it('cancelling a score rejects at once and leaves no complete run behind', async () => {
     const before = (await listRunRecords(folder)).length;
     const abort = new AbortController();
-    const pending = connection.request('score', { folder, settings: { ...fastSettings, epochs: 400 } }, {
-      signal: abort.signal,
-      onProgress: (stage) => {
-        if (stage !== 'load') abort.abort();
+    const pending = connection.request(
+      'score',
+      { folder, settings: { ...fastSettings, epochs: 400 } },
+      {
+        signal: abort.signal,
+        onProgress: (stage) => {
+          if (stage !== 'load') abort.abort();
+        },
       },
-    });
+    );
     await assert.rejects(pending, RequestCancelledError);
     // The worker answers the cancel (or is terminated) and serves the next request.
     assert.deepEqual(await connection.request('validate', { folder }), []);

@@ -1,5 +1,7 @@
 import * as assert from 'node:assert/strict';
+import { defaultRunSettings } from '../../src/engine/pipeline/runSettings';
 import {
+  runSettingsProblem,
   isCancelMessage,
   isEngineRequest,
   isErrorMessage,
@@ -15,7 +17,20 @@ const problem = { file: 'nodes.csv', line: 4, column: 1, message: 'duplicate nod
 
 describe('protocol/worker guards', () => {
   it('lists exactly the request kinds the worker serves', () => {
-    assert.deepEqual([...requestTypes].sort(), ['summary', 'validate']);
+    assert.deepEqual([...requestTypes].sort(), [
+      'applyPlan',
+      'closeReview',
+      'commitLabels',
+      'exportDecisions',
+      'openReview',
+      'overview',
+      'planApply',
+      'reviewDecisions',
+      'reviewMessage',
+      'score',
+      'summary',
+      'validate',
+    ]);
   });
 
   it('accepts well-formed requests and the cancel message', () => {
@@ -107,5 +122,66 @@ describe('protocol/worker guards', () => {
     assert.equal(isLocatedProblem({ ...problem, file: undefined }), false);
     assert.equal(isLocatedProblem({ ...problem, message: 3 }), false);
     assert.equal(isLocatedProblem([problem]), false);
+  });
+
+  it('checks score parameters, with every run setting in range', () => {
+    const settings = { ...defaultRunSettings };
+    assert.equal(runSettingsProblem(settings), null);
+    assert.equal(isEngineRequest({ type: 'score', id: 4, params: { folder: '/d', settings } }), true);
+    assert.equal(isEngineRequest({ type: 'score', id: 4, params: { folder: '/d', slice: '2024-Q3', settings, discover: false } }), true);
+    assert.equal(
+      isEngineRequest({ type: 'score', id: 4, params: { folder: '/d', settings: { ...settings, historyWindow: 'all' } } }),
+      true,
+    );
+    const bad: [string, unknown][] = [
+      ['model', 'transformer'],
+      ['historyWindow', -1],
+      ['historyWindow', 'some'],
+      ['alpha', Number.NaN],
+      ['thresholdFolds', 1],
+      ['smoothingWeight', 1.5],
+      ['smoothingRounds', 0.5],
+      ['noveltyMethod', 'vibes'],
+      ['rejectQuantile', 1],
+      ['epochs', 0],
+      ['seed', '7'],
+      ['warmStart', 'yes'],
+    ];
+    for (const [key, value] of bad) {
+      const wrong = { ...settings, [key]: value };
+      assert.match(runSettingsProblem(wrong) ?? '', new RegExp(key), `${key}: ${String(value)}`);
+      assert.equal(isEngineRequest({ type: 'score', id: 4, params: { folder: '/d', settings: wrong } }), false, `${key}: ${String(value)}`);
+    }
+    const { epochs: _dropped, ...missing } = settings;
+    assert.match(runSettingsProblem(missing) ?? '', /epochs/);
+    assert.equal(isEngineRequest({ type: 'score', id: 4, params: { folder: '/d', settings, slice: 3 } }), false);
+  });
+
+  it('accepts only run ids that stay inside runs/, and review ids that are request ids', () => {
+    const open = (runId: string) => ({ type: 'openReview', id: 5, params: { folder: '/d', runId, persistPath: null } });
+    assert.equal(isEngineRequest(open('2026-12-01T22-00-00-000Z-2024-Q3-a1b2c3')), true);
+    for (const runId of ['../x', 'a/b', '', 'a\\b']) assert.equal(isEngineRequest(open(runId)), false, runId);
+    assert.equal(isEngineRequest({ type: 'reviewMessage', id: 6, params: { reviewId: 2, message: { type: 'ready' } } }), true);
+    assert.equal(isEngineRequest({ type: 'reviewMessage', id: 6, params: { reviewId: -2, message: {} } }), false);
+    assert.equal(isEngineRequest({ type: 'reviewMessage', id: 6, params: { reviewId: 2 } }), false);
+    assert.equal(isEngineRequest({ type: 'commitLabels', id: 7, params: { folder: '/d', message: '   ' } }), false);
+  });
+
+  it('carries a label-file conflict with the files it names', () => {
+    assert.equal(
+      isErrorMessage({ type: 'error', id: 8, error: { kind: 'conflict', message: 'labels.csv changed', files: ['labels.csv'] } }),
+      true,
+    );
+    assert.equal(isErrorMessage({ type: 'error', id: 8, error: { kind: 'conflict', message: 'labels.csv changed' } }), false);
+    assert.equal(
+      isResultMessage({
+        type: 'result',
+        id: 9,
+        request: 'commitLabels',
+        value: { outcome: 'committed', commit: 'abc', root: '/r', files: ['labels.csv'] },
+      }),
+      true,
+    );
+    assert.equal(isResultMessage({ type: 'result', id: 9, request: 'commitLabels', value: { outcome: 'pushed' } }), false);
   });
 });

@@ -37,7 +37,12 @@ describe('report rendering', () => {
   it('summarises only the slices where the matrix is complete', () => {
     // Slice 0 has no test nodes (its row and column undefined): the summaries are those of the
     // remaining 3×3 block, the hand-worked matrix above.
-    const withEmpty = [[null, null, null, null], [null, ...R[0]], [null, ...R[1]], [null, ...R[2]]];
+    const withEmpty = [
+      [null, null, null, null],
+      [null, ...R[0]],
+      [null, ...R[1]],
+      [null, ...R[2]],
+    ];
     assert.deepEqual(completeSliceSet(withEmpty), [1, 2, 3]);
     const summary = continualSummary(withEmpty, ['s0', ...SLICES], [null, ...UNTRAINED]);
     assert.deepEqual(summary.slicesUsed, SLICES);
@@ -55,7 +60,8 @@ describe('report rendering', () => {
     assert.match(html, /<meta http-equiv="Content-Security-Policy" content="default-src 'none';/);
     const nonce = /script-src 'nonce-([A-Za-z0-9]+)'/.exec(html)?.[1];
     assert.ok(nonce, 'the CSP names a script nonce');
-    for (const tag of html.match(/<(?:script|style)\b[^>]*>/g) ?? []) assert.ok(tag.includes(`nonce="${nonce}"`), `${tag} carries the nonce`);
+    for (const tag of html.match(/<(?:script|style)\b[^>]*>/g) ?? [])
+      assert.ok(tag.includes(`nonce="${nonce}"`), `${tag} carries the nonce`);
     assert.match(html, /Model suggestions are not decisions/);
     assert.match(html, /truth\.csv/);
   });

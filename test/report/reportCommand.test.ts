@@ -54,7 +54,11 @@ describe('graph-curator report', function () {
     const reportIo = collectingIo();
     const htmlFile = path.join(parent, 'report.html');
     const jsonFile = path.join(parent, 'report.json');
-    assert.equal(await runReport([folder, '--truth', truth, '--html', htmlFile, '--json', jsonFile, '--quick', ...settingFlags], reportIo), 0, reportIo.err);
+    assert.equal(
+      await runReport([folder, '--truth', truth, '--html', htmlFile, '--json', jsonFile, '--quick', ...settingFlags], reportIo),
+      0,
+      reportIo.err,
+    );
     assert.match(reportIo.out, /computed in/);
     report = JSON.parse(await fs.readFile(jsonFile, 'utf8')) as QualityReport;
     html = await fs.readFile(htmlFile, 'utf8');
@@ -93,13 +97,21 @@ describe('graph-curator report', function () {
   it('sweeps the history window and the label rate on the quick plan, and says so', () => {
     assert.deepEqual(report.sweepPlan.slices, evaluation.slices.slice(-3));
     assert.equal(report.sweepPlan.epochs, 30);
-    assert.deepEqual(report.historySweep.points.map((p) => p.setting), [1, 2, 3, 5, 'all']);
-    assert.deepEqual(report.labelRateSweep.points.map((p) => p.setting), [0.1, 0.3, 0.5, 0.7, 0.9]);
+    assert.deepEqual(
+      report.historySweep.points.map((p) => p.setting),
+      [1, 2, 3, 5, 'all'],
+    );
+    assert.deepEqual(
+      report.labelRateSweep.points.map((p) => p.setting),
+      [0.1, 0.3, 0.5, 0.7, 0.9],
+    );
     // A longer history replays at least as many labelled nodes; a higher label rate trains on more.
     const replayed = report.historySweep.points.map((p) => p.graph.meanTrainingNodes);
-    for (let k = 1; k < replayed.length; k++) assert.ok(replayed[k] >= replayed[k - 1], `history sweep training nodes ${replayed.join(', ')}`);
+    for (let k = 1; k < replayed.length; k++)
+      assert.ok(replayed[k] >= replayed[k - 1], `history sweep training nodes ${replayed.join(', ')}`);
     const trained = report.labelRateSweep.points.map((p) => p.graph.meanTrainingNodes);
-    for (let k = 1; k < trained.length; k++) assert.ok(trained[k] > trained[k - 1], `label-rate sweep training nodes ${trained.join(', ')}`);
+    for (let k = 1; k < trained.length; k++)
+      assert.ok(trained[k] > trained[k - 1], `label-rate sweep training nodes ${trained.join(', ')}`);
     assert.match(html, /quick: slices 2022, 2023, 2024; 30 epochs/);
   });
 
@@ -121,14 +133,18 @@ describe('graph-curator report', function () {
 
   it('changes the cache key when labels.csv changes', async () => {
     const settings = { ...defaultRunSettings, epochs: 30, thresholdFolds: 0, warmStart: true };
-    const keyOf = async () => reportCacheKey({ contentHashes: (await loadDataset(folder)).contentHashes, settings, referenceSha256: null, quick: true });
+    const keyOf = async () =>
+      reportCacheKey({ contentHashes: (await loadDataset(folder)).contentHashes, settings, referenceSha256: null, quick: true });
     const before = await keyOf();
     assert.equal(await keyOf(), before);
     const labelsFile = path.join(folder, 'labels.csv');
     const lines = (await fs.readFile(labelsFile, 'utf8')).split('\n');
     await fs.writeFile(labelsFile, [lines[0], ...lines.slice(2)].join('\n'));
     assert.notEqual(await keyOf(), before);
-    assert.notEqual(reportCacheKey({ contentHashes: {}, settings, referenceSha256: 'a', quick: true }), reportCacheKey({ contentHashes: {}, settings, referenceSha256: 'b', quick: true }));
+    assert.notEqual(
+      reportCacheKey({ contentHashes: {}, settings, referenceSha256: 'a', quick: true }),
+      reportCacheKey({ contentHashes: {}, settings, referenceSha256: 'b', quick: true }),
+    );
   });
 
   it('renders in headless Chromium in light and dark, with hover values', async function () {
@@ -138,7 +154,15 @@ describe('graph-curator report', function () {
     await fs.writeFile(htmlFile, html);
     const browser = await chromium.launch({
       executablePath: CHROMIUM,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
+      args: [
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+        '--no-first-run',
+        '--disable-quic',
+      ],
     });
     try {
       const backgrounds: string[] = [];
@@ -156,7 +180,10 @@ describe('graph-curator report', function () {
         const tooltip = page.locator('#report-tooltip');
         await tooltip.waitFor({ state: 'visible' });
         const last = evaluation.graphModel.perSlice[evaluation.graphModel.perSlice.length - 1];
-        assert.match((await tooltip.textContent()) ?? '', new RegExp(`slice ${last.slice}: accuracy ${(last.accuracy as number).toFixed(3)}`));
+        assert.match(
+          (await tooltip.textContent()) ?? '',
+          new RegExp(`slice ${last.slice}: accuracy ${(last.accuracy as number).toFixed(3)}`),
+        );
         await page.screenshot({ path: path.join(SCREENSHOTS, `report-${colorScheme}-hover.png`) });
         assert.deepEqual(problems, []);
         await page.close();

@@ -8,7 +8,19 @@ import type { QualityReport, SettingSweep, SweepModelFigures } from '../../src/e
 export const SLICES = ['2021', '2022', '2023'];
 
 function slice(key: string, accuracy: number | null, extra: Partial<SliceMetrics> = {}): SliceMetrics {
-  return { slice: key, trainingNodes: 20, testNodes: 10, unseenTestNodes: 2, accuracy, macroF1: accuracy, openSetMacroF1: 0.5, noveltyAuroc: 0.75, rejectionRate: 0.1, trainSeconds: 0.5, ...extra };
+  return {
+    slice: key,
+    trainingNodes: 20,
+    testNodes: 10,
+    unseenTestNodes: 2,
+    accuracy,
+    macroF1: accuracy,
+    openSetMacroF1: 0.5,
+    noveltyAuroc: 0.75,
+    rejectionRate: 0.1,
+    trainSeconds: 0.5,
+    ...extra,
+  };
 }
 
 function evaluation(model: 'sign' | 'mlp', matrix: (number | null)[][]): ModelEvaluation {
@@ -29,10 +41,18 @@ function figures(accuracy: number): SweepModelFigures {
 }
 
 function sweep(parameter: 'historyWindow' | 'labelRate', settings: (number | 'all')[]): SettingSweep {
-  return { parameter, points: settings.map((s, k) => ({ setting: s, label: String(s), graph: figures(0.6 + 0.05 * k), baseline: figures(0.5 + 0.05 * k) })) };
+  return {
+    parameter,
+    points: settings.map((s, k) => ({ setting: s, label: String(s), graph: figures(0.6 + 0.05 * k), baseline: figures(0.5 + 0.05 * k) })),
+  };
 }
 
-export function handMadeReport(graphMatrix: (number | null)[][], graphUntrained: (number | null)[], baselineMatrix: (number | null)[][] = graphMatrix, baselineUntrained = graphUntrained): QualityReport {
+export function handMadeReport(
+  graphMatrix: (number | null)[][],
+  graphUntrained: (number | null)[],
+  baselineMatrix: (number | null)[][] = graphMatrix,
+  baselineUntrained = graphUntrained,
+): QualityReport {
   const settings = { ...defaultRunSettings };
   const graph = evaluation('sign', graphMatrix);
   const baseline = evaluation('mlp', baselineMatrix);
@@ -42,12 +62,22 @@ export function handMadeReport(graphMatrix: (number | null)[][], graphUntrained:
     createdAt: '2024-01-01T00:00:00.000Z',
     cacheKey: 'fixture',
     computeSeconds: 1,
-    dataset: { name: 'hand-made', folder: '/nowhere/hand-made', nodes: 30, labelled: 20, slices: SLICES.map((key) => ({ key, nodeCount: 10 })), contentHashes: {} },
+    dataset: {
+      name: 'hand-made',
+      folder: '/nowhere/hand-made',
+      nodes: 30,
+      labelled: 20,
+      slices: SLICES.map((key) => ({ key, nodeCount: 10 })),
+      contentHashes: {},
+    },
     reference: { source: 'truth.csv', sha256: 'ab'.repeat(32) },
     settings,
     settingsHash: '0123456789abcdef',
     evaluation: { dataset: 'hand-made', reference: 'truth.csv', slices: SLICES, settings, graphModel: graph, baseline },
-    continual: { graph: continualSummary(graphMatrix, SLICES, graphUntrained), baseline: continualSummary(baselineMatrix, SLICES, baselineUntrained) },
+    continual: {
+      graph: continualSummary(graphMatrix, SLICES, graphUntrained),
+      baseline: continualSummary(baselineMatrix, SLICES, baselineUntrained),
+    },
     warmAgainstCold: { graph: rows, baseline: rows, meanDifference: { graph: 0.1, baseline: 0.1 } },
     sweepPlan: { quick: true, slices: SLICES.slice(-2), epochs: 10, warmStart: false, thresholdFolds: 0 },
     historySweep: sweep('historyWindow', [1, 2, 3, 5, 'all']),

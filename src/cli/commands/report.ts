@@ -13,13 +13,17 @@ import { renderReportDocument } from '../../report/renderReport';
 
 export const spec: CommandSpec = {
   name: 'report',
-  summary: 'Write a self-contained HTML report of quality over time: graph model against the MLP baseline, warm against cold start, history-window and label-rate sweeps.',
+  summary:
+    'Write a self-contained HTML report of quality over time: graph model against the MLP baseline, warm against cold start, history-window and label-rate sweeps.',
   positionals: [{ name: 'folder' }],
   flags: [
     { name: 'html', value: 'FILE', description: 'Where to write the report (one HTML file that opens offline).' },
     { name: 'truth', value: 'FILE', description: 'Held-out true labels (id,label); classes absent from labels.csv count as unseen.' },
     { name: 'json', value: 'FILE', description: 'Also write the report data as JSON.' },
-    { name: 'quick', description: `Sweeps on the newest ${QUICK_SWEEP_SLICES} slices with at most ${QUICK_SWEEP_EPOCHS} epochs (the main evaluation is unchanged).` },
+    {
+      name: 'quick',
+      description: `Sweeps on the newest ${QUICK_SWEEP_SLICES} slices with at most ${QUICK_SWEEP_EPOCHS} epochs (the main evaluation is unchanged).`,
+    },
     { name: 'no-cache', description: 'Recompute even if runs/report-cache holds a report for the same inputs.' },
     ...RUN_SETTING_FLAGS.filter((f) => f.name !== 'slice'),
   ],
@@ -49,7 +53,9 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     await writeFileAtomic(path.resolve(htmlPath), renderReportDocument(report));
     if (jsonPath !== undefined) await writeFileAtomic(path.resolve(jsonPath), JSON.stringify(report, null, 2) + '\n');
     const source = fromCache ? `from the cache (computed ${report.createdAt})` : `computed in ${report.computeSeconds.toFixed(1)} s`;
-    io.stdout(`wrote ${htmlPath}${jsonPath !== undefined ? ` and ${jsonPath}` : ''}: ${report.evaluation.slices.length} slices, ${source}\n`);
+    io.stdout(
+      `wrote ${htmlPath}${jsonPath !== undefined ? ` and ${jsonPath}` : ''}: ${report.evaluation.slices.length} slices, ${source}\n`,
+    );
     return EXIT.ok;
   } catch (error) {
     return reportError(error, io, spec, folder);

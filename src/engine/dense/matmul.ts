@@ -4,6 +4,20 @@
 // output, both contiguous; the right-hand matrix (inputDim × hidden) stays in cache. Zero
 // entries of the left operand are skipped, which makes sparse inputs (one-hot, TF-IDF) cheap.
 // Every function accepts a row range so that callers can split the work across threads.
+//
+// Above a small size each function hands its work to the WebAssembly SIMD kernels
+// (src/engine/simd/, about 30 times faster); the loops below are their reference and the
+// fallback where WebAssembly SIMD is missing. The SIMD kernels sum in the same order but round
+// each product to float32, so results agree to float32 rounding, not bit for bit.
+import { simdAvailable } from '../simd/kernels';
+import { simdAddTransposedProduct, simdMatMulRows, simdMatMulTransposedRight } from '../simd/products';
+
+/** Multiply-adds from which a product goes to the SIMD kernels: below it, copying in and out costs more. */
+export const SIMD_MIN_MULTIPLY_ADDS = 1 << 13;
+
+function useSimd(rows: number, inner: number, columns: number): boolean {
+  return rows * inner * columns >= SIMD_MIN_MULTIPLY_ADDS && simdAvailable();
+}
 
 /** out[rows × n] = a[rows × k] · b[k × n] for rows [rowStart, rowEnd); out rows are overwritten. */
 export function matMul(
@@ -16,6 +30,10 @@ export function matMul(
   rowStart = 0,
   rowEnd = rowCount,
 ): Float32Array {
+  if (useSimd(rowEnd - rowStart, inner, columns)) {
+    simdMatMulRows(a, null, b, inner, columns, out, rowStart, rowEnd);
+    return out;
+  }
   for (let i = rowStart; i < rowEnd; i++) {
     const outBase = i * columns;
     out.fill(0, outBase, outBase + columns);
@@ -51,6 +69,10 @@ export function gatherMatMul(
   rowStart = 0,
   rowEnd = rowIndex.length,
 ): Float32Array {
+  if (useSimd(rowEnd - rowStart, inner, columns)) {
+    simdMatMulRows(a, rowIndex, b, inner, columns, out, rowStart, rowEnd);
+    return out;
+  }
   for (let r = rowStart; r < rowEnd; r++) {
     const outBase = r * columns;
     out.fill(0, outBase, outBase + columns);
@@ -87,6 +109,10 @@ export function addTransposedProduct(
   rowStart: number,
   rowEnd: number,
 ): Float32Array {
+  if (useSimd(rowEnd - rowStart, inner, columns)) {
+    simdAddTransposedProduct(a, rowIndex, g, inner, columns, out, rowStart, rowEnd);
+    return out;
+  }
   for (let r = rowStart; r < rowEnd; r++) {
     const aBase = (rowIndex ? rowIndex[r] : r) * inner;
     const gBase = r * columns;
@@ -126,6 +152,10 @@ export function matMulTransposedRight(
   rowStart = 0,
   rowEnd = rowCount,
 ): Float32Array {
+  if (useSimd(rowEnd - rowStart, inner, columns)) {
+    simdMatMulTransposedRight(g, w, columns, inner, out, rowStart, rowEnd);
+    return out;
+  }
   for (let i = rowStart; i < rowEnd; i++) {
     const gBase = i * columns;
     const oBase = i * inner;

@@ -1,6 +1,19 @@
 // Sparse (CSR) × dense products over typed arrays, the inner loop of every propagation and of
 // message passing during training. Dense matrices are row-major Float32Arrays.
+//
+// spmm and spmmTransposed hand products above a small size to the WebAssembly SIMD kernels
+// (src/engine/simd/), which reproduce the loops below bit for bit; the loops stay as their
+// reference, as the worker pool's kernel and as the fallback where WebAssembly SIMD is missing.
+import { simdAvailable } from '../simd/kernels';
+import { simdSpmm, simdSpmmTransposed } from '../simd/products';
 import type { CsrMatrix } from './csr';
+
+/** Non-zeros × columns from which a product goes to the SIMD kernels. */
+export const SIMD_MIN_SPARSE_WORK = 1 << 13;
+
+function useSimd(a: CsrMatrix, columns: number): boolean {
+  return (a.rowPtr[a.rowCount] + a.rowCount) * columns >= SIMD_MIN_SPARSE_WORK && simdAvailable();
+}
 
 /**
  * Writes rows [rowStart, rowEnd) of A·H into out. The single kernel behind spmm and the worker
@@ -69,6 +82,10 @@ export function spmmRowRange(
 export function spmm(a: CsrMatrix, dense: Float32Array, columns: number, out?: Float32Array): Float32Array {
   checkProductShapes('spmm', a.colCount, a.rowCount, dense, columns, out);
   const result = out ?? new Float32Array(a.rowCount * columns);
+  if (useSimd(a, columns)) {
+    simdSpmm(a, dense, columns, result);
+    return result;
+  }
   spmmRowRange(a.rowPtr, a.colIndex, a.values, dense, columns, result, 0, a.rowCount);
   return result;
 }
@@ -81,6 +98,10 @@ export function spmm(a: CsrMatrix, dense: Float32Array, columns: number, out?: F
 export function spmmTransposed(a: CsrMatrix, dense: Float32Array, columns: number, out?: Float32Array): Float32Array {
   checkProductShapes('spmmTransposed', a.rowCount, a.colCount, dense, columns, out);
   const result = out ?? new Float32Array(a.colCount * columns);
+  if (useSimd(a, columns)) {
+    simdSpmmTransposed(a, dense, columns, result);
+    return result;
+  }
   if (out) result.fill(0, 0, a.colCount * columns);
   const { rowPtr, colIndex, values } = a;
   const blocked = columns - (columns % 4);

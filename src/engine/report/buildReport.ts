@@ -5,7 +5,14 @@ import * as path from 'node:path';
 import type { Dataset } from '../dataset/types';
 import type { CancelSignal, ProgressSink } from '../util/progress';
 import { throwIfCancelled } from '../util/progress';
-import { evaluateSlices, referenceFromLabels, type EvaluationReport, type ModelEvaluation, type PrefixCache, type ReferenceLabels } from '../pipeline/evaluateSlices';
+import {
+  evaluateSlices,
+  referenceFromLabels,
+  type EvaluationReport,
+  type ModelEvaluation,
+  type PrefixCache,
+  type ReferenceLabels,
+} from '../pipeline/evaluateSlices';
 import { readTruthFile } from '../pipeline/referenceLabels';
 import { settingsHash, type RunSettings } from '../pipeline/runSettings';
 import { continualSummary } from './continualSummary';
@@ -72,7 +79,11 @@ export async function buildReport(dataset: Dataset, options: BuildReportOptions)
   const cache: PrefixCache = { propagated: new Map() };
   const evaluate = (changed: Partial<RunSettings>, stage: string): Promise<EvaluationReport> => {
     throwIfCancelled(cancel);
-    return evaluateSlices(dataset, { ...settings, ...changed }, { reference, compareColdStart: false, cache, progress: stagePrefix(progress, stage), cancel });
+    return evaluateSlices(
+      dataset,
+      { ...settings, ...changed },
+      { reference, compareColdStart: false, cache, progress: stagePrefix(progress, stage), cancel },
+    );
   };
   // The warm and cold chains are the two halves of `evaluate --warm`; fitting them separately
   // gives the cold figures in full, at the same cost.
@@ -87,7 +98,12 @@ export async function buildReport(dataset: Dataset, options: BuildReportOptions)
     meanDifference: { graph: meanDifference(graphRows), baseline: meanDifference(baselineRows) },
   };
   const evaluation: EvaluationReport = settings.warmStart
-    ? { ...warm, settings, graphModel: withColdComparison(warm.graphModel, graphRows), baseline: withColdComparison(warm.baseline, baselineRows) }
+    ? {
+        ...warm,
+        settings,
+        graphModel: withColdComparison(warm.graphModel, graphRows),
+        baseline: withColdComparison(warm.baseline, baselineRows),
+      }
     : { ...cold, settings };
 
   const plan = sweepPlanFor(dataset, settings, quick);

@@ -20,7 +20,13 @@ export function completeSliceSet(matrix: (number | null)[][]): number[] {
  */
 export function continualSummary(matrix: (number | null)[][], sliceKeys: string[], untrainedAccuracy: (number | null)[]): ContinualSummary {
   const keep = completeSliceSet(matrix);
-  const empty: ContinualSummary = { averageAccuracy: null, backwardTransfer: null, forwardTransfer: null, slicesUsed: keep.map((i) => sliceKeys[i]), untrainedAccuracy };
+  const empty: ContinualSummary = {
+    averageAccuracy: null,
+    backwardTransfer: null,
+    forwardTransfer: null,
+    slicesUsed: keep.map((i) => sliceKeys[i]),
+    untrainedAccuracy,
+  };
   if (keep.length < 2) return empty;
   const square = keep.map((i) => keep.map((j) => matrix[i][j] as number));
   const baseline = keep.map((i) => untrainedAccuracy[i]);
@@ -29,6 +35,11 @@ export function continualSummary(matrix: (number | null)[][], sliceKeys: string[
     ...empty,
     averageAccuracy: averageAccuracy(square),
     backwardTransfer: backwardTransfer(square),
-    forwardTransfer: baselineComplete ? forwardTransfer(square, baseline.map((b) => b ?? NaN)) : null,
+    forwardTransfer: baselineComplete
+      ? forwardTransfer(
+          square,
+          baseline.map((b) => b ?? NaN),
+        )
+      : null,
   };
 }

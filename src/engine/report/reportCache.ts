@@ -38,7 +38,9 @@ export function reportCacheFolder(datasetFolder: string): string {
 }
 
 export async function sha256OfFile(file: string): Promise<string> {
-  return createHash('sha256').update(await fs.readFile(file)).digest('hex');
+  return createHash('sha256')
+    .update(await fs.readFile(file))
+    .digest('hex');
 }
 
 /** The cached report for `key`, or null when absent, unreadable or of another format. */

@@ -6,7 +6,14 @@ import type { CancelSignal, ProgressSink } from '../util/progress';
 import { throwIfCancelled } from '../util/progress';
 import { evaluateSlices, type ModelEvaluation, type PrefixCache, type ReferenceLabels } from '../pipeline/evaluateSlices';
 import { describeWindow, type RunSettings } from '../pipeline/runSettings';
-import { HISTORY_WINDOW_SWEEP, LABEL_RATE_SWEEP, type SettingSweep, type SweepModelFigures, type SweepPlan, type SweepPoint } from './reportTypes';
+import {
+  HISTORY_WINDOW_SWEEP,
+  LABEL_RATE_SWEEP,
+  type SettingSweep,
+  type SweepModelFigures,
+  type SweepPlan,
+  type SweepPoint,
+} from './reportTypes';
 
 /** Quick sweeps: the newest slices only, and at most this many epochs. */
 export const QUICK_SWEEP_SLICES = 3;
@@ -41,7 +48,13 @@ function meanOf(values: (number | null)[]): number | null {
 export function sweepFigures(evaluation: ModelEvaluation, sliceKeys: readonly string[]): SweepModelFigures {
   const perSlice = evaluation.perSlice
     .filter((m) => sliceKeys.includes(m.slice))
-    .map((m) => ({ slice: m.slice, accuracy: m.accuracy, macroF1: m.macroF1, trainingNodes: m.trainingNodes, trainSeconds: m.trainSeconds }));
+    .map((m) => ({
+      slice: m.slice,
+      accuracy: m.accuracy,
+      macroF1: m.macroF1,
+      trainingNodes: m.trainingNodes,
+      trainSeconds: m.trainSeconds,
+    }));
   const fitted = perSlice.filter((m) => m.trainingNodes > 0);
   return {
     meanAccuracy: meanOf(perSlice.map((m) => m.accuracy)),
@@ -52,10 +65,22 @@ export function sweepFigures(evaluation: ModelEvaluation, sliceKeys: readonly st
   };
 }
 
-async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, setting: number | 'all', label: string, stage: string): Promise<SweepPoint> {
+async function sweepPoint(
+  ctx: SweepContext,
+  changed: Partial<RunSettings>,
+  setting: number | 'all',
+  label: string,
+  stage: string,
+): Promise<SweepPoint> {
   throwIfCancelled(ctx.cancel);
   const { plan, dataset } = ctx;
-  const settings: RunSettings = { ...ctx.settings, ...changed, warmStart: plan.warmStart, thresholdFolds: plan.thresholdFolds, epochs: plan.epochs };
+  const settings: RunSettings = {
+    ...ctx.settings,
+    ...changed,
+    warmStart: plan.warmStart,
+    thresholdFolds: plan.thresholdFolds,
+    epochs: plan.epochs,
+  };
   const onlySlices = dataset.slices.filter((s) => plan.slices.includes(s.key)).map((s) => s.index);
   const evaluation = await evaluateSlices(dataset, settings, {
     reference: ctx.reference,
@@ -65,17 +90,24 @@ async function sweepPoint(ctx: SweepContext, changed: Partial<RunSettings>, sett
     progress: ctx.progress && { report: (inner, fraction) => ctx.progress?.report(`${stage}: ${inner}`, fraction) },
     cancel: ctx.cancel,
   });
-  return { setting, label, graph: sweepFigures(evaluation.graphModel, plan.slices), baseline: sweepFigures(evaluation.baseline, plan.slices) };
+  return {
+    setting,
+    label,
+    graph: sweepFigures(evaluation.graphModel, plan.slices),
+    baseline: sweepFigures(evaluation.baseline, plan.slices),
+  };
 }
 
 export async function historyWindowSweep(ctx: SweepContext): Promise<SettingSweep> {
   const points: SweepPoint[] = [];
-  for (const window of HISTORY_WINDOW_SWEEP) points.push(await sweepPoint(ctx, { historyWindow: window }, window, describeWindow(window), `history window ${String(window)}`));
+  for (const window of HISTORY_WINDOW_SWEEP)
+    points.push(await sweepPoint(ctx, { historyWindow: window }, window, describeWindow(window), `history window ${String(window)}`));
   return { parameter: 'historyWindow', points };
 }
 
 export async function labelRateSweep(ctx: SweepContext): Promise<SettingSweep> {
   const points: SweepPoint[] = [];
-  for (const rate of LABEL_RATE_SWEEP) points.push(await sweepPoint(ctx, { labelRate: rate }, rate, `${Math.round(rate * 100)}% of labels`, `label rate ${rate}`));
+  for (const rate of LABEL_RATE_SWEEP)
+    points.push(await sweepPoint(ctx, { labelRate: rate }, rate, `${Math.round(rate * 100)}% of labels`, `label rate ${rate}`));
   return { parameter: 'labelRate', points };
 }

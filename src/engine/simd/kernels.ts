@@ -12,7 +12,16 @@ export interface KernelExports {
   matMulTransposedA(a: number, g: number, c: number, rows: number, inner: number, cols: number, accumulate: number): void;
   matMulTransposedB(g: number, w: number, c: number, rows: number, cols: number, inner: number, scratch: number, list: number): void;
   spmm(rowPtr: number, colIndex: number, values: number, dense: number, out: number, rowStart: number, rowEnd: number, cols: number): void;
-  spmmTransposed(rowPtr: number, colIndex: number, values: number, dense: number, out: number, rowCount: number, colCount: number, cols: number): void;
+  spmmTransposed(
+    rowPtr: number,
+    colIndex: number,
+    values: number,
+    dense: number,
+    out: number,
+    rowCount: number,
+    colCount: number,
+    cols: number,
+  ): void;
   biasReluMask(h: number, bias: number, mask: number, rows: number, cols: number): void;
   addBias(z: number, bias: number, rows: number, cols: number): void;
   reluMaskBackward(d: number, activation: number, mask: number, n: number): void;

@@ -19,7 +19,9 @@ function placeRows(
   const pointer = workspace.allocate(rows * width * 4);
   const view = workspace.floats(pointer, rows * width);
   if (!rowIndex) view.set(matrix.subarray(rowStart * width, rowEnd * width));
-  else for (let r = 0; r < rows; r++) view.set(matrix.subarray(rowIndex[rowStart + r] * width, (rowIndex[rowStart + r] + 1) * width), r * width);
+  else
+    for (let r = 0; r < rows; r++)
+      view.set(matrix.subarray(rowIndex[rowStart + r] * width, (rowIndex[rowStart + r] + 1) * width), r * width);
   return pointer;
 }
 

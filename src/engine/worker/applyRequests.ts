@@ -25,5 +25,7 @@ export async function commitLabels(folder: string, message: string, initialise =
     await initRepository(folder);
   }
   const commit = await commitLabelFiles(folder, message);
-  return commit ? { outcome: 'committed', commit: commit.commit, root: commit.root, files: commit.files } : { outcome: 'nothing-to-commit' };
+  return commit
+    ? { outcome: 'committed', commit: commit.commit, root: commit.root, files: commit.files }
+    : { outcome: 'nothing-to-commit' };
 }

@@ -45,9 +45,9 @@ export function createRequestHandlers(reviews = new ReviewRegistry()): RequestHa
 
     reviewMessage: ({ reviewId, message }) => reviews.message(reviewId, message),
 
-    reviewDecisions: async ({ reviewId }) => reviews.decisions(reviewId),
+    reviewDecisions: ({ reviewId }) => Promise.resolve(reviews.decisions(reviewId)),
 
-    closeReview: async ({ reviewId }) => reviews.close(reviewId),
+    closeReview: ({ reviewId }) => Promise.resolve(reviews.close(reviewId)),
 
     planApply: ({ folder, decisions, source, rebase }) => planDecisions(folder, decisions, source, rebase),
 

@@ -13,7 +13,12 @@ import type { HostToWebviewMessage, ThresholdPreviewResult } from '../../protoco
 import type { OpenReviewOutcome, ReviewMessageOutcome, ReviewSessionJson } from '../../protocol/worker';
 import { ReviewController } from '../../review/reviewController';
 import { ReviewSession } from '../../review/reviewSession';
-import { createThresholdPreviewer, thresholdPreviewInputOf, thresholdSettingOf, type ThresholdPreviewer } from '../../review/thresholdPreview';
+import {
+  createThresholdPreviewer,
+  thresholdPreviewInputOf,
+  thresholdSettingOf,
+  type ThresholdPreviewer,
+} from '../../review/thresholdPreview';
 import { readRunForReview, type RunForReview } from './runForReview';
 
 /** The fit of the run scored last in this worker, kept for threshold previews. */
@@ -58,7 +63,10 @@ export class ReviewRegistry {
   }
 
   async open(request: OpenReviewRequest, loadDataset: (folder: string) => Promise<Dataset>): Promise<OpenReviewOutcome> {
-    const remembered = this.rememberedFit && this.rememberedFit.folder === path.resolve(request.folder) && this.rememberedFit.runId === request.runId ? this.rememberedFit : null;
+    const remembered =
+      this.rememberedFit && this.rememberedFit.folder === path.resolve(request.folder) && this.rememberedFit.runId === request.runId
+        ? this.rememberedFit
+        : null;
     const dataset = remembered?.dataset ?? (await loadDataset(request.folder));
     const run = await readRunForReview(dataset, request.runId);
     const { session, restoredFrom, restoreProblem } = await restoreSession(run, request);
@@ -162,7 +170,9 @@ async function restoreSession(
     }
   }
   const fresh = new ReviewSession(run.context, run.candidates);
-  return problems.length > 0 ? { session: fresh, restoredFrom: 'none', restoreProblem: problems.join('; ') } : { session: fresh, restoredFrom: 'none' };
+  return problems.length > 0
+    ? { session: fresh, restoredFrom: 'none', restoreProblem: problems.join('; ') }
+    : { session: fresh, restoredFrom: 'none' };
 }
 
 function previewerOf(remembered: RememberedFit, run: RunForReview): ThresholdPreviewer {

@@ -77,7 +77,8 @@ export async function readRunScores(dataset: Dataset, record: RunRecord, runFold
 
   const matrix = parseNpy(new Uint8Array(await fs.readFile(path.join(runFolder, record.files.embeddings))), record.files.embeddings);
   const hiddenUnits = matrix.shape[1] ?? 0;
-  if (matrix.shape[0] !== rowNumber) throw new Error(`${record.files.embeddings} has ${matrix.shape[0]} rows for ${rowNumber} rows of ${record.files.scores}`);
+  if (matrix.shape[0] !== rowNumber)
+    throw new Error(`${record.files.embeddings} has ${matrix.shape[0]} rows for ${rowNumber} rows of ${record.files.scores}`);
   const source = matrix.data;
   const count = rows.length;
   const embeddings = new Float32Array(count * hiddenUnits);
@@ -132,13 +133,16 @@ export interface RunForReview {
 export async function readRunForReview(dataset: Dataset, runId: string, adjacency?: CsrMatrix): Promise<RunForReview> {
   const runFolder = runFolderOf(dataset.folder, runId);
   const record = await readRunRecord(dataset.folder, runId);
-  if (record.dataset !== dataset.manifest.name) throw new Error(`run ${runId} was made on dataset "${record.dataset}", not "${dataset.manifest.name}"`);
+  if (record.dataset !== dataset.manifest.name)
+    throw new Error(`run ${runId} was made on dataset "${record.dataset}", not "${dataset.manifest.name}"`);
   const scores = await readRunScores(dataset, record, runFolder);
   const graph = adjacency ?? buildAdjacency(dataset.nodeIds.length, dataset.edges, true);
   const context = reviewContextOf(dataset, scores, graph, { runId: record.runId, settingsHash: record.settingsHash });
   // Conflicts are judged against the label files as the run read them, not as they are now.
   context.baseHashes = { ...record.datasetHashes };
   const candidatesFile = record.files.candidates ? await readCandidatesFile(path.join(runFolder, record.files.candidates)) : null;
-  const candidates = (candidatesFile?.candidates ?? []).map((c) => reviewCandidateOf(c, dataset)).filter((c): c is ReviewCandidate => c !== null);
+  const candidates = (candidatesFile?.candidates ?? [])
+    .map((c) => reviewCandidateOf(c, dataset))
+    .filter((c): c is ReviewCandidate => c !== null);
   return { record, runFolder, context, candidates, candidatesFile };
 }

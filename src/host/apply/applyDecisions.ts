@@ -51,7 +51,10 @@ export class DecisionApplier {
         const files = [...new Set(plan.baseConflicts.map((c) => c.file))].join(' and ');
         const choice = await vscode.window.showWarningMessage(
           `${files} changed since run ${plan.decisions.runId ?? ''} was scored.`,
-          { modal: true, detail: 'Re-read the label files as they are now and apply the decisions to them? Every decision is checked again.' },
+          {
+            modal: true,
+            detail: 'Re-read the label files as they are now and apply the decisions to them? Every decision is checked again.',
+          },
           rereadButton,
         );
         if (choice !== rereadButton) return { message: `Nothing written: ${files} changed since the run.`, batch: null };
@@ -70,16 +73,19 @@ export class DecisionApplier {
         applyButton,
         applyAndCommitButton,
       );
-      if (choice !== applyButton && choice !== applyAndCommitButton) return { message: 'Apply cancelled: nothing was written.', batch: null };
+      if (choice !== applyButton && choice !== applyAndCommitButton)
+        return { message: 'Apply cancelled: nothing was written.', batch: null };
       let applied;
       try {
-        applied = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: `Writing the label files of ${plan.dataset}` }, () =>
-          this.services.client.request('applyPlan', { plan }),
+        applied = await vscode.window.withProgress(
+          { location: vscode.ProgressLocation.Notification, title: `Writing the label files of ${plan.dataset}` },
+          () => this.services.client.request('applyPlan', { plan }),
         );
       } catch (error) {
         if (!(error instanceof LabelFilesConflictError)) throw error;
         const again = await vscode.window.showWarningMessage(error.message, { modal: true }, rereadButton);
-        if (again !== rereadButton) return { message: `Nothing written: ${error.files.join(' and ')} changed during the apply.`, batch: null };
+        if (again !== rereadButton)
+          return { message: `Nothing written: ${error.files.join(' and ')} changed during the apply.`, batch: null };
         continue;
       }
       this.previews.clear();
@@ -95,8 +101,17 @@ export class DecisionApplier {
 
   private async plan(request: ApplyRequest, rebase: boolean): Promise<PlanApplyOutcome> {
     return await vscode.window.withProgress(
-      { location: vscode.ProgressLocation.Notification, title: `Planning the decisions for ${path.basename(request.folder)}`, cancellable: true },
-      (progress, token) => this.services.client.request('planApply', { folder: request.folder, decisions: request.decisions, source: request.source, rebase }, { progress, token }),
+      {
+        location: vscode.ProgressLocation.Notification,
+        title: `Planning the decisions for ${path.basename(request.folder)}`,
+        cancellable: true,
+      },
+      (progress, token) =>
+        this.services.client.request(
+          'planApply',
+          { folder: request.folder, decisions: request.decisions, source: request.source, rebase },
+          { progress, token },
+        ),
     );
   }
 
@@ -121,7 +136,12 @@ export class DecisionApplier {
     });
     if (edited === undefined) return 'Not committed.';
     try {
-      const report = await commitLabelFiles(this.services, plan.folder, [plan.labelsFile.path, plan.classesFile.path, plan.logFile.path], joinCommitMessage(edited, body));
+      const report = await commitLabelFiles(
+        this.services,
+        plan.folder,
+        [plan.labelsFile.path, plan.classesFile.path, plan.logFile.path],
+        joinCommitMessage(edited, body),
+      );
       return report.committed ? `Committed ${report.commit.slice(0, 12)} (${report.via}).` : `Not committed: ${report.why}.`;
     } catch (error) {
       if (error instanceof RequestCancelledError) return 'Not committed.';

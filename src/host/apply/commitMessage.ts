@@ -11,7 +11,13 @@ export function splitCommitMessage(message: string): CommitMessageParts {
   const normalised = message.replace(/\r\n?/g, '\n');
   const newline = normalised.indexOf('\n');
   if (newline < 0) return { subject: normalised.trim(), body: '' };
-  return { subject: normalised.slice(0, newline).trim(), body: normalised.slice(newline + 1).replace(/^\n+/, '').replace(/\s+$/, '') };
+  return {
+    subject: normalised.slice(0, newline).trim(),
+    body: normalised
+      .slice(newline + 1)
+      .replace(/^\n+/, '')
+      .replace(/\s+$/, ''),
+  };
 }
 
 /** Subject, a blank line, the body; a final newline as git writes it. An empty subject is refused. */

@@ -4,10 +4,7 @@
 // curator's unrelated staged work is never committed with the labels.
 import * as path from 'node:path';
 
-export type CommitRoute =
-  | { route: 'extension' }
-  | { route: 'command-line'; reason: string }
-  | { route: 'files-only'; reason: string };
+export type CommitRoute = { route: 'extension' } | { route: 'command-line'; reason: string } | { route: 'files-only'; reason: string };
 
 /** Same file whatever the spelling (case on case-insensitive systems is left alone). */
 function samePath(a: string, b: string): boolean {
@@ -18,7 +15,12 @@ export function otherStagedPaths(staged: readonly string[], labelPaths: readonly
   return staged.filter((file) => !labelPaths.some((label) => samePath(file, label)));
 }
 
-export function chooseCommitRoute(options: { gitExtension: 'enabled' | 'disabled' | 'missing'; staged: readonly string[]; labelPaths: readonly string[]; gitOnPath: boolean }): CommitRoute {
+export function chooseCommitRoute(options: {
+  gitExtension: 'enabled' | 'disabled' | 'missing';
+  staged: readonly string[];
+  labelPaths: readonly string[];
+  gitOnPath: boolean;
+}): CommitRoute {
   const others = otherStagedPaths(options.staged, options.labelPaths);
   if (options.gitExtension === 'enabled' && others.length === 0) return { route: 'extension' };
   const why =

@@ -9,8 +9,7 @@ import { chooseCommitRoute } from './commitRoute';
 import type { GitApi, GitExtension, GitRepository } from './gitApi';
 
 export type CommitReport =
-  | { committed: true; commit: string; via: 'git extension' | 'git command line' }
-  | { committed: false; why: string };
+  { committed: true; commit: string; via: 'git extension' | 'git command line' } | { committed: false; why: string };
 
 async function gitApi(): Promise<{ state: 'enabled'; api: GitApi } | { state: 'disabled' | 'missing' }> {
   const extension = vscode.extensions.getExtension<GitExtension>('vscode.git');
@@ -38,9 +37,21 @@ async function offerInit(folder: string): Promise<boolean> {
   return choice === 'Initialise Repository';
 }
 
-export async function commitLabelFiles(services: HostServices, folder: string, allLabelPaths: string[], message: string): Promise<CommitReport> {
+export async function commitLabelFiles(
+  services: HostServices,
+  folder: string,
+  allLabelPaths: string[],
+  message: string,
+): Promise<CommitReport> {
   // classes.json or the log may not exist (nothing was ever written to them): git cannot add those.
-  const present = await Promise.all(allLabelPaths.map((file) => fs.stat(file).then((s) => s.isFile(), () => false)));
+  const present = await Promise.all(
+    allLabelPaths.map((file) =>
+      fs.stat(file).then(
+        (s) => s.isFile(),
+        () => false,
+      ),
+    ),
+  );
   const labelPaths = allLabelPaths.filter((_, k) => present[k]);
   const git = await gitApi();
   let repository: GitRepository | null = null;
@@ -56,13 +67,20 @@ export async function commitLabelFiles(services: HostServices, folder: string, a
   const staged = repository ? repository.state.indexChanges.map((c) => c.uri.fsPath) : [];
   const route = chooseCommitRoute({ gitExtension: git.state, staged, labelPaths, gitOnPath: true });
   if (route.route !== 'extension' || !repository) {
-    services.output.appendLine(`Committing the label files with git's command line: ${route.route === 'extension' ? 'no repository from the git extension' : route.reason}.`);
+    services.output.appendLine(
+      `Committing the label files with git's command line: ${route.route === 'extension' ? 'no repository from the git extension' : route.reason}.`,
+    );
     return viaCommandLine(services, folder, message, false);
   }
   await repository.add(labelPaths);
   await repository.status();
   // Checked again after staging: something may have been staged meanwhile.
-  const again = chooseCommitRoute({ gitExtension: 'enabled', staged: repository.state.indexChanges.map((c) => c.uri.fsPath), labelPaths, gitOnPath: true });
+  const again = chooseCommitRoute({
+    gitExtension: 'enabled',
+    staged: repository.state.indexChanges.map((c) => c.uri.fsPath),
+    labelPaths,
+    gitOnPath: true,
+  });
   if (again.route !== 'extension') return viaCommandLine(services, folder, message, false);
   if (repository.state.indexChanges.length === 0) return { committed: false, why: 'the label files match the last commit' };
   await repository.commit(message);

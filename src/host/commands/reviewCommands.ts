@@ -44,7 +44,8 @@ export function registerReviewCommands(services: ReviewCommandServices): vscode.
     vscode.commands.registerCommand(commandIds.scoreSlice, (resource?: unknown) => scoreSliceCommand(services, resource)),
     vscode.commands.registerCommand(commandIds.openReviewPanel, (resource?: unknown) => openReviewPanel(services, resource)),
     vscode.commands.registerCommand(commandIds.openCandidate, async (target?: unknown) => {
-      if (isReviewTarget(target)) await services.panels.show(target, (target as { candidateId?: unknown }).candidateId as string | undefined);
+      if (isReviewTarget(target))
+        await services.panels.show(target, (target as { candidateId?: unknown }).candidateId as string | undefined);
     }),
     vscode.commands.registerCommand(commandIds.applyDecisions, (resource?: unknown) => applyDecisionsCommand(services, resource)),
     vscode.commands.registerCommand(commandIds.exportDecisions, (resource?: unknown) => exportDecisionsCommand(services, resource)),
@@ -53,12 +54,23 @@ export function registerReviewCommands(services: ReviewCommandServices): vscode.
 }
 
 async function openDatasetFolder(services: ReviewCommandServices): Promise<void> {
-  const picked = await vscode.window.showOpenDialog({ canSelectFolders: true, canSelectFiles: false, canSelectMany: false, openLabel: 'Open Dataset', title: 'Open a dataset folder (with dataset.json)' });
+  const picked = await vscode.window.showOpenDialog({
+    canSelectFolders: true,
+    canSelectFiles: false,
+    canSelectMany: false,
+    openLabel: 'Open Dataset',
+    title: 'Open a dataset folder (with dataset.json)',
+  });
   const folder = picked?.[0]?.fsPath;
   if (!folder) return;
-  const hasManifest = await fs.stat(path.join(folder, manifestFileName)).then((s) => s.isFile(), () => false);
+  const hasManifest = await fs.stat(path.join(folder, manifestFileName)).then(
+    (s) => s.isFile(),
+    () => false,
+  );
   if (!hasManifest) {
-    void vscode.window.showErrorMessage(`${folder} has no ${manifestFileName}: it is not a dataset folder. Create one with "graph-curator init".`);
+    void vscode.window.showErrorMessage(
+      `${folder} has no ${manifestFileName}: it is not a dataset folder. Create one with "graph-curator init".`,
+    );
     return;
   }
   await services.tree.addFolder(folder);
@@ -77,7 +89,10 @@ function currentRunSettings(services: HostServices) {
   const config = vscode.workspace.getConfiguration('graphCurator');
   const read = runSettingsFromConfiguration((key: SettingKey) => config.get(key));
   for (const problem of read.problems) services.output.appendLine(`Settings: ${problem}`);
-  if (read.problems.length > 0) void vscode.window.showWarningMessage(`Some Graph Curator settings are invalid and were replaced by defaults (see the Graph Curator output).`);
+  if (read.problems.length > 0)
+    void vscode.window.showWarningMessage(
+      `Some Graph Curator settings are invalid and were replaced by defaults (see the Graph Curator output).`,
+    );
   return read.settings;
 }
 
@@ -88,7 +103,10 @@ async function scoreSliceCommand(services: ReviewCommandServices, resource?: unk
   if (!mayWriteToWorkspace('Scoring a slice')) return;
   let overview;
   try {
-    overview = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: `Reading dataset '${name}'`, cancellable: false }, () => services.overviews.get(folder));
+    overview = await vscode.window.withProgress(
+      { location: vscode.ProgressLocation.Notification, title: `Reading dataset '${name}'`, cancellable: false },
+      () => services.overviews.get(folder),
+    );
   } catch (error) {
     reportEngineError(services, folder, 'Reading', error);
     return;
@@ -147,25 +165,50 @@ async function openReviewPanel(services: ReviewCommandServices, resource?: unkno
  * The decisions to apply or export: the open panel's, else a run of the chosen dataset with saved
  * pending decisions (opened in the panel first, so the curator sees them), else a decisions file.
  */
-async function pendingDecisions(services: ReviewCommandServices, resource: unknown, verb: string): Promise<{ folder: string; decisions: DecisionsFile; source: string; fromPanel: boolean } | undefined> {
+async function pendingDecisions(
+  services: ReviewCommandServices,
+  resource: unknown,
+  verb: string,
+): Promise<{ folder: string; decisions: DecisionsFile; source: string; fromPanel: boolean } | undefined> {
   const fromPanel = isReviewTarget(resource) ? undefined : await services.panels.currentDecisions();
-  if (fromPanel && fromPanel.decisions.decisions.length > 0) return { folder: fromPanel.target.folder, decisions: fromPanel.decisions, source: `review of run ${fromPanel.target.runId}`, fromPanel: true };
+  if (fromPanel && fromPanel.decisions.decisions.length > 0)
+    return {
+      folder: fromPanel.target.folder,
+      decisions: fromPanel.decisions,
+      source: `review of run ${fromPanel.target.runId}`,
+      fromPanel: true,
+    };
   const folder = isReviewTarget(resource) ? resource.folder : (fromPanel?.target.folder ?? (await chooseDatasetFolder(resource)));
   if (!folder) return undefined;
   const runs = await listRunRecords(folder);
   const withPending: ReviewTarget[] = [];
   for (const run of runs) {
-    if (await fs.stat(pendingDecisionsPath(folder, run.runId)).then(() => true, () => false)) withPending.push({ folder, runId: run.runId });
+    if (
+      await fs.stat(pendingDecisionsPath(folder, run.runId)).then(
+        () => true,
+        () => false,
+      )
+    )
+      withPending.push({ folder, runId: run.runId });
   }
   const saved = withPending[0];
   if (saved) {
     await services.panels.show(saved);
     const current = await services.panels.currentDecisions();
-    if (current && current.decisions.decisions.length > 0) return { folder, decisions: current.decisions, source: `review of run ${saved.runId}`, fromPanel: true };
+    if (current && current.decisions.decisions.length > 0)
+      return { folder, decisions: current.decisions, source: `review of run ${saved.runId}`, fromPanel: true };
   }
-  const choice = await vscode.window.showInformationMessage(`No pending decisions to ${verb} in ${path.basename(folder)}.`, 'Choose a Decisions File…');
+  const choice = await vscode.window.showInformationMessage(
+    `No pending decisions to ${verb} in ${path.basename(folder)}.`,
+    'Choose a Decisions File…',
+  );
   if (!choice) return undefined;
-  const files = await vscode.window.showOpenDialog({ canSelectMany: false, filters: { 'Decisions file': ['json'] }, defaultUri: vscode.Uri.file(folder), openLabel: 'Use Decisions' });
+  const files = await vscode.window.showOpenDialog({
+    canSelectMany: false,
+    filters: { 'Decisions file': ['json'] },
+    defaultUri: vscode.Uri.file(folder),
+    openLabel: 'Use Decisions',
+  });
   const file = files?.[0]?.fsPath;
   if (!file) return undefined;
   try {
@@ -203,10 +246,15 @@ async function exportDecisionsCommand(services: ReviewCommandServices, resource?
 /** Asks where, writes the file (atomically, in the worker); resolves to the message shown. */
 export async function exportDecisionsFile(services: HostServices, folder: string, decisions: DecisionsFile): Promise<string> {
   const defaultName = `decisions-${decisions.slice}-${(decisions.runId ?? 'review').slice(0, 19)}.json`;
-  const target = await vscode.window.showSaveDialog({ defaultUri: vscode.Uri.file(path.join(folder, defaultName)), filters: { 'Decisions file': ['json'] }, saveLabel: 'Export Decisions' });
+  const target = await vscode.window.showSaveDialog({
+    defaultUri: vscode.Uri.file(path.join(folder, defaultName)),
+    filters: { 'Decisions file': ['json'] },
+    saveLabel: 'Export Decisions',
+  });
   if (!target) return 'Export cancelled.';
   const inWorkspace = vscode.workspace.getWorkspaceFolder(target) !== undefined;
-  if (inWorkspace && !mayWriteToWorkspace('Exporting decisions')) return 'Not exported: Restricted Mode does not allow writing to the workspace.';
+  if (inWorkspace && !mayWriteToWorkspace('Exporting decisions'))
+    return 'Not exported: Restricted Mode does not allow writing to the workspace.';
   const written = await services.client.request('exportDecisions', { file: target.fsPath, decisions });
   const message = `Exported ${decisions.decisions.length} decision${decisions.decisions.length === 1 ? '' : 's'} to ${written}. Apply them with "graph-curator apply --decisions".`;
   void vscode.window.showInformationMessage(message);

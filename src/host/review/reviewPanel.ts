@@ -32,13 +32,11 @@ export class ReviewPanels implements vscode.Disposable {
   ) {
     this.disposables.push(
       vscode.window.registerWebviewPanelSerializer(reviewViewType, {
-        deserializeWebviewPanel: async (panel) => {
+        deserializeWebviewPanel: (panel) => {
           const target = this.context.workspaceState.get<unknown>(reviewPanelStateKey);
-          if (!isReviewTarget(target)) {
-            panel.dispose();
-            return;
-          }
-          this.attach(panel, target);
+          if (isReviewTarget(target)) this.attach(panel, target);
+          else panel.dispose();
+          return Promise.resolve();
         },
       }),
     );
@@ -64,7 +62,12 @@ export class ReviewPanels implements vscode.Disposable {
       this.panel.reveal(undefined, false);
       await this.switchTo(target);
     } else {
-      const panel = vscode.window.createWebviewPanel(reviewViewType, 'Review', { viewColumn: vscode.ViewColumn.Active, preserveFocus: false }, this.panelOptions());
+      const panel = vscode.window.createWebviewPanel(
+        reviewViewType,
+        'Review',
+        { viewColumn: vscode.ViewColumn.Active, preserveFocus: false },
+        this.panelOptions(),
+      );
       this.attach(panel, target);
     }
     const relay = this.relay;
@@ -122,14 +125,20 @@ export class ReviewPanels implements vscode.Disposable {
         post: (message) => this.post(message),
         saveSession: (session: ReviewSessionJson) => {
           void state.update(sessionKey, session);
-          if (this.panel) this.panel.title = `Review ${session.dataset} ${session.slice}${session.decisions.length ? ` (${session.decisions.length} pending)` : ''}`;
+          if (this.panel)
+            this.panel.title = `Review ${session.dataset} ${session.slice}${session.decisions.length ? ` (${session.decisions.length} pending)` : ''}`;
         },
         exportDecisions: (file) => this.exportDecisions(target.folder, file),
         applyDecisions: async (file) => (await this.applyFor(target, file)).message,
         openNode: (nodeId) => revealNode(target.folder, nodeId),
         log: (line) => this.services.output.appendLine(line),
       },
-      { folder: target.folder, runId: target.runId, persistPath: trusted ? pendingDecisionsPath(target.folder, target.runId) : null, saved: state.get<unknown>(sessionKey) },
+      {
+        folder: target.folder,
+        runId: target.runId,
+        persistPath: trusted ? pendingDecisionsPath(target.folder, target.runId) : null,
+        saved: state.get<unknown>(sessionKey),
+      },
     );
   }
 
@@ -153,7 +162,9 @@ export class ReviewPanels implements vscode.Disposable {
     const client = this.services.client;
     return {
       openReview: async (params) =>
-        await vscode.window.withProgress({ location: vscode.ProgressLocation.Window, title: 'Opening the review' }, (progress) => client.request('openReview', params, { progress })),
+        await vscode.window.withProgress({ location: vscode.ProgressLocation.Window, title: 'Opening the review' }, (progress) =>
+          client.request('openReview', params, { progress }),
+        ),
       message: (reviewId, message) => client.request('reviewMessage', { reviewId, message }),
       decisions: (reviewId) => client.request('reviewDecisions', { reviewId }),
       close: (reviewId) => client.request('closeReview', { reviewId }),
@@ -229,8 +240,14 @@ async function revealNode(folder: string, nodeId: string): Promise<void> {
   const document = await vscode.workspace.openTextDocument(vscode.Uri.file(path.join(folder, nodesFile)));
   const text = document.getText();
   const quoted = `"${nodeId.replace(/"/g, '""')}"`;
-  const offset = [`\n${nodeId},`, `\n${quoted},`, `,${nodeId},`, `,${nodeId}\n`].map((needle) => text.indexOf(needle)).find((at) => at >= 0);
+  const offset = [`\n${nodeId},`, `\n${quoted},`, `,${nodeId},`, `,${nodeId}\n`]
+    .map((needle) => text.indexOf(needle))
+    .find((at) => at >= 0);
   const position = offset === undefined ? new vscode.Position(0, 0) : document.positionAt(offset + 1);
   const line = document.lineAt(position.line).range;
-  await vscode.window.showTextDocument(document, { selection: new vscode.Range(line.start, line.end), viewColumn: vscode.ViewColumn.Beside, preview: true });
+  await vscode.window.showTextDocument(document, {
+    selection: new vscode.Range(line.start, line.end),
+    viewColumn: vscode.ViewColumn.Beside,
+    preview: true,
+  });
 }

@@ -4,7 +4,12 @@
 // worker; exporting, applying and opening a node are the host's, because they need editors,
 // dialogs and files.
 import type { DecisionsFile } from '../../engine/decisions/types';
-import { describeRefusedMessage, isWebviewToHostMessage, type HostToWebviewMessage, type WebviewToHostMessage } from '../../protocol/webview';
+import {
+  describeRefusedMessage,
+  isWebviewToHostMessage,
+  type HostToWebviewMessage,
+  type WebviewToHostMessage,
+} from '../../protocol/webview';
 import type { OpenReviewOutcome, OpenReviewParams, ReviewMessageOutcome, ReviewSessionJson } from '../../protocol/worker';
 
 export interface ReviewEngine {
@@ -56,7 +61,8 @@ export class ReviewRelay {
       this.opened = this.engine.openReview({ ...this.params, ...(saved === undefined ? {} : { saved }) }).then((outcome) => {
         this.latestSession = outcome.session;
         this.host.saveSession(outcome.session);
-        if (outcome.restoreProblem) this.host.log(`review of run ${this.params.runId}: the saved pending decisions could not be restored: ${outcome.restoreProblem}`);
+        if (outcome.restoreProblem)
+          this.host.log(`review of run ${this.params.runId}: the saved pending decisions could not be restored: ${outcome.restoreProblem}`);
         return outcome;
       });
       this.opened.catch(() => {

@@ -17,5 +17,10 @@ export function reviewSessionStateKey(folder: string, runId: string): string {
 export function isReviewTarget(value: unknown): value is ReviewTarget {
   if (typeof value !== 'object' || value === null) return false;
   const target = value as Partial<ReviewTarget>;
-  return typeof target.folder === 'string' && target.folder.length > 0 && typeof target.runId === 'string' && /^[A-Za-z0-9._-]+$/.test(target.runId);
+  return (
+    typeof target.folder === 'string' &&
+    target.folder.length > 0 &&
+    typeof target.runId === 'string' &&
+    /^[A-Za-z0-9._-]+$/.test(target.runId)
+  );
 }
