@@ -15,116 +15,156 @@ export function heapBase(): usize {
 // broadcasting one left entry per row and loading 8 right entries per inner step; with the x64
 // register file (16 vector registers) that is the largest block that does not spill.
 
+/** Blocks of 4 rows that matMul takes together: 32 rows, about 48 KiB of a for 384 columns. */
+const BLOCKS_PER_CHUNK = 8;
+
 /**
- * c[rows × cols] = a[rows × inner] · b[inner × cols] (overwritten). list: scratch for `inner`
- * int32 indices, where each block of rows notes its non-zero inner positions, so sparse left
- * rows (TF-IDF, one-hot) skip their zeros as the reference does.
+ * c[rows × cols] = a[rows × inner] · b[inner × cols] (overwritten). Rows go in chunks of 32:
+ * for each 8-column panel of b, every 4-row block of the chunk runs over the panel while it is
+ * in the first-level cache. list: scratch for 8 × (inner + 1) int32, where each block of rows
+ * notes its non-zero inner positions, so sparse left rows (TF-IDF, one-hot) skip their zeros as
+ * the reference does.
  */
 export function matMul(a: usize, b: usize, c: usize, rows: i32, inner: i32, cols: i32, list: usize): void {
   const aRow = (<usize>inner) << 2;
   const cRow = (<usize>cols) << 2;
-  let i = 0;
-  for (; i + 4 <= rows; i += 4) {
-    const a0 = a + <usize>i * aRow;
-    const a1 = a0 + aRow;
-    const a2 = a1 + aRow;
-    const a3 = a2 + aRow;
-    let count = 0;
-    for (let p = 0; p < inner; p++) {
-      const at = (<usize>p) << 2;
-      // Shifting out the sign bit makes -0 count as zero too.
-      const bits = (load<u32>(a0 + at) | load<u32>(a1 + at) | load<u32>(a2 + at) | load<u32>(a3 + at)) << 1;
-      store<i32>(list + ((<usize>count) << 2), p);
-      count += i32(bits != 0);
+  const listBytes = (<usize>(inner + 1)) << 2;
+  const blockedRows = rows & ~3;
+  for (let i0 = 0; i0 < blockedRows; i0 += BLOCKS_PER_CHUNK * 4) {
+    const blocks = min(BLOCKS_PER_CHUNK, (blockedRows - i0) >> 2);
+    for (let block = 0; block < blocks; block++) {
+      const a0 = a + <usize>(i0 + block * 4) * aRow;
+      const a1 = a0 + aRow;
+      const a2 = a1 + aRow;
+      const a3 = a2 + aRow;
+      const blockList = list + <usize>block * listBytes + 4;
+      let count = 0;
+      for (let p = 0; p < inner; p++) {
+        const at = (<usize>p) << 2;
+        // Shifting out the sign bit makes -0 count as zero too.
+        const bits = (load<u32>(a0 + at) | load<u32>(a1 + at) | load<u32>(a2 + at) | load<u32>(a3 + at)) << 1;
+        store<i32>(blockList + ((<usize>count) << 2), p);
+        count += i32(bits != 0);
+      }
+      store<i32>(blockList - 4, count);
     }
-    const c0 = c + <usize>i * cRow;
-    const c1 = c0 + cRow;
-    const c2 = c1 + cRow;
-    const c3 = c2 + cRow;
     let j = 0;
     for (; j + 8 <= cols; j += 8) {
-      const bColumn = b + ((<usize>j) << 2);
-      let s00 = f32x4.splat(0);
-      let s01 = f32x4.splat(0);
-      let s10 = f32x4.splat(0);
-      let s11 = f32x4.splat(0);
-      let s20 = f32x4.splat(0);
-      let s21 = f32x4.splat(0);
-      let s30 = f32x4.splat(0);
-      let s31 = f32x4.splat(0);
-      for (let q = 0; q < count; q++) {
-        const p = <usize>load<i32>(list + ((<usize>q) << 2));
-        const at = p << 2;
-        const bp = bColumn + p * cRow;
-        const b0 = v128.load(bp);
-        const b1 = v128.load(bp, 16);
-        let x = v128.load32_splat(a0 + at);
-        s00 = f32x4.add(s00, f32x4.mul(x, b0));
-        s01 = f32x4.add(s01, f32x4.mul(x, b1));
-        x = v128.load32_splat(a1 + at);
-        s10 = f32x4.add(s10, f32x4.mul(x, b0));
-        s11 = f32x4.add(s11, f32x4.mul(x, b1));
-        x = v128.load32_splat(a2 + at);
-        s20 = f32x4.add(s20, f32x4.mul(x, b0));
-        s21 = f32x4.add(s21, f32x4.mul(x, b1));
-        x = v128.load32_splat(a3 + at);
-        s30 = f32x4.add(s30, f32x4.mul(x, b0));
-        s31 = f32x4.add(s31, f32x4.mul(x, b1));
+      for (let block = 0; block < blocks; block++) {
+        const blockList = list + <usize>block * listBytes + 4;
+        const row = <usize>(i0 + block * 4);
+        matMulBlock8(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
       }
-      const at = (<usize>j) << 2;
-      v128.store(c0 + at, s00);
-      v128.store(c0 + at, s01, 16);
-      v128.store(c1 + at, s10);
-      v128.store(c1 + at, s11, 16);
-      v128.store(c2 + at, s20);
-      v128.store(c2 + at, s21, 16);
-      v128.store(c3 + at, s30);
-      v128.store(c3 + at, s31, 16);
     }
     for (; j + 4 <= cols; j += 4) {
-      const bColumn = b + ((<usize>j) << 2);
-      let s0 = f32x4.splat(0);
-      let s1 = f32x4.splat(0);
-      let s2 = f32x4.splat(0);
-      let s3 = f32x4.splat(0);
-      for (let q = 0; q < count; q++) {
-        const p = <usize>load<i32>(list + ((<usize>q) << 2));
-        const at = p << 2;
-        const b0 = v128.load(bColumn + p * cRow);
-        s0 = f32x4.add(s0, f32x4.mul(v128.load32_splat(a0 + at), b0));
-        s1 = f32x4.add(s1, f32x4.mul(v128.load32_splat(a1 + at), b0));
-        s2 = f32x4.add(s2, f32x4.mul(v128.load32_splat(a2 + at), b0));
-        s3 = f32x4.add(s3, f32x4.mul(v128.load32_splat(a3 + at), b0));
+      for (let block = 0; block < blocks; block++) {
+        const blockList = list + <usize>block * listBytes + 4;
+        const row = <usize>(i0 + block * 4);
+        matMulBlock4(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
       }
-      const at = (<usize>j) << 2;
-      v128.store(c0 + at, s0);
-      v128.store(c1 + at, s1);
-      v128.store(c2 + at, s2);
-      v128.store(c3 + at, s3);
     }
     for (; j < cols; j++) {
-      const bColumn = b + ((<usize>j) << 2);
-      let s0: f32 = 0;
-      let s1: f32 = 0;
-      let s2: f32 = 0;
-      let s3: f32 = 0;
-      for (let q = 0; q < count; q++) {
-        const p = <usize>load<i32>(list + ((<usize>q) << 2));
-        const at = p << 2;
-        const bv = load<f32>(bColumn + p * cRow);
-        s0 += load<f32>(a0 + at) * bv;
-        s1 += load<f32>(a1 + at) * bv;
-        s2 += load<f32>(a2 + at) * bv;
-        s3 += load<f32>(a3 + at) * bv;
+      for (let block = 0; block < blocks; block++) {
+        const blockList = list + <usize>block * listBytes + 4;
+        const row = <usize>(i0 + block * 4);
+        matMulBlock1(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
       }
-      const at = (<usize>j) << 2;
-      store<f32>(c0 + at, s0);
-      store<f32>(c1 + at, s1);
-      store<f32>(c2 + at, s2);
-      store<f32>(c3 + at, s3);
     }
   }
-  for (; i < rows; i++) matMulRow(a + <usize>i * aRow, b, c + <usize>i * cRow, inner, cols, list);
+  for (let i = blockedRows; i < rows; i++) matMulRow(a + <usize>i * aRow, b, c + <usize>i * cRow, inner, cols, list);
+}
+
+/** 4 rows × 8 columns of matMul: a0 is the block's first row, bColumn and c0 point at column j. */
+function matMulBlock8(a0: usize, aRow: usize, bColumn: usize, cRow: usize, c0: usize, list: usize, count: i32): void {
+  const a1 = a0 + aRow;
+  const a2 = a1 + aRow;
+  const a3 = a2 + aRow;
+  let s00 = f32x4.splat(0);
+  let s01 = f32x4.splat(0);
+  let s10 = f32x4.splat(0);
+  let s11 = f32x4.splat(0);
+  let s20 = f32x4.splat(0);
+  let s21 = f32x4.splat(0);
+  let s30 = f32x4.splat(0);
+  let s31 = f32x4.splat(0);
+  for (let q = 0; q < count; q++) {
+    const p = <usize>load<i32>(list + ((<usize>q) << 2));
+    const at = p << 2;
+    const bp = bColumn + p * cRow;
+    const b0 = v128.load(bp);
+    const b1 = v128.load(bp, 16);
+    let x = v128.load32_splat(a0 + at);
+    s00 = f32x4.add(s00, f32x4.mul(x, b0));
+    s01 = f32x4.add(s01, f32x4.mul(x, b1));
+    x = v128.load32_splat(a1 + at);
+    s10 = f32x4.add(s10, f32x4.mul(x, b0));
+    s11 = f32x4.add(s11, f32x4.mul(x, b1));
+    x = v128.load32_splat(a2 + at);
+    s20 = f32x4.add(s20, f32x4.mul(x, b0));
+    s21 = f32x4.add(s21, f32x4.mul(x, b1));
+    x = v128.load32_splat(a3 + at);
+    s30 = f32x4.add(s30, f32x4.mul(x, b0));
+    s31 = f32x4.add(s31, f32x4.mul(x, b1));
+  }
+  const c1 = c0 + cRow;
+  const c2 = c1 + cRow;
+  const c3 = c2 + cRow;
+  v128.store(c0, s00);
+  v128.store(c0, s01, 16);
+  v128.store(c1, s10);
+  v128.store(c1, s11, 16);
+  v128.store(c2, s20);
+  v128.store(c2, s21, 16);
+  v128.store(c3, s30);
+  v128.store(c3, s31, 16);
+}
+
+/** 4 rows × 4 columns of matMul. */
+function matMulBlock4(a0: usize, aRow: usize, bColumn: usize, cRow: usize, c0: usize, list: usize, count: i32): void {
+  const a1 = a0 + aRow;
+  const a2 = a1 + aRow;
+  const a3 = a2 + aRow;
+  let s0 = f32x4.splat(0);
+  let s1 = f32x4.splat(0);
+  let s2 = f32x4.splat(0);
+  let s3 = f32x4.splat(0);
+  for (let q = 0; q < count; q++) {
+    const p = <usize>load<i32>(list + ((<usize>q) << 2));
+    const at = p << 2;
+    const b0 = v128.load(bColumn + p * cRow);
+    s0 = f32x4.add(s0, f32x4.mul(v128.load32_splat(a0 + at), b0));
+    s1 = f32x4.add(s1, f32x4.mul(v128.load32_splat(a1 + at), b0));
+    s2 = f32x4.add(s2, f32x4.mul(v128.load32_splat(a2 + at), b0));
+    s3 = f32x4.add(s3, f32x4.mul(v128.load32_splat(a3 + at), b0));
+  }
+  v128.store(c0, s0);
+  v128.store(c0 + cRow, s1);
+  v128.store(c0 + 2 * cRow, s2);
+  v128.store(c0 + 3 * cRow, s3);
+}
+
+/** 4 rows × 1 column of matMul. */
+function matMulBlock1(a0: usize, aRow: usize, bColumn: usize, cRow: usize, c0: usize, list: usize, count: i32): void {
+  const a1 = a0 + aRow;
+  const a2 = a1 + aRow;
+  const a3 = a2 + aRow;
+  let s0: f32 = 0;
+  let s1: f32 = 0;
+  let s2: f32 = 0;
+  let s3: f32 = 0;
+  for (let q = 0; q < count; q++) {
+    const p = <usize>load<i32>(list + ((<usize>q) << 2));
+    const at = p << 2;
+    const bv = load<f32>(bColumn + p * cRow);
+    s0 += load<f32>(a0 + at) * bv;
+    s1 += load<f32>(a1 + at) * bv;
+    s2 += load<f32>(a2 + at) * bv;
+    s3 += load<f32>(a3 + at) * bv;
+  }
+  store<f32>(c0, s0);
+  store<f32>(c0 + cRow, s1);
+  store<f32>(c0 + 2 * cRow, s2);
+  store<f32>(c0 + 3 * cRow, s3);
 }
 
 /** One row of matMul (the rows left over after the blocks of four). */
@@ -313,7 +353,7 @@ export function matMulTransposedA(a: usize, g: usize, c: usize, rows: i32, inner
 /**
  * c[rows × inner] = g[rows × cols] · w[inner × cols]ᵀ (the gradient flowing back through a
  * dense layer). w is small (a weight matrix): it is transposed into `scratch` (cols × inner
- * floats) and the product runs as matMul. list: scratch for `cols` int32 indices.
+ * floats) and the product runs as matMul. list: matMul's scratch, 8 × (cols + 1) int32.
  */
 export function matMulTransposedB(g: usize, w: usize, c: usize, rows: i32, cols: i32, inner: i32, scratch: usize, list: usize): void {
   for (let p = 0; p < inner; p++) {

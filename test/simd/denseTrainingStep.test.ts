@@ -1,8 +1,9 @@
 import assert from 'node:assert/strict';
 import { classWeightedBce, oneHotTargets, positiveWeights } from '../../src/engine/models/classWeightedLoss';
-import { DenseTrainingStep, predictDense, type DenseParameters } from '../../src/engine/models/denseStep';
+import { DenseTrainingStep, flattenParameters, predictDense, splitGradients, type DenseParameters } from '../../src/engine/models/denseStep';
 import { dropoutMask, glorotUniform } from '../../src/engine/models/initialisation';
 import { predictDenseSimd, SimdDenseTrainingStep } from '../../src/engine/simd/denseTrainingStep';
+import { ParallelSimdTraining } from '../../src/engine/simd/parallelSimdTraining';
 import { initTensorflow } from '../../src/engine/tf/backend';
 import { SeededRandom } from '../../src/engine/util/random';
 
@@ -106,6 +107,28 @@ describe('SIMD dense training step', () => {
       const down = step.run(p.parameters, null).loss;
       p.parameters.outputBias[c] = original;
       assert.ok(Math.abs((up - down) / 2e-2 - gradients.outputBias[c]) < 1e-4, `output bias ${c}`);
+    }
+  });
+
+  it('gives the same step split over two worker threads', async () => {
+    const p = problem(301, 33, 16, 4, 12);
+    const lossScale = 1 / (p.rows * p.classes);
+    const single = new SimdDenseTrainingStep(p.inputs, p.rows, p.inputDim, p.targets, p.posWeight, p.hidden, lossScale);
+    const inputs = new Float32Array(new SharedArrayBuffer(p.inputs.length * 4));
+    inputs.set(p.inputs);
+    const parallel = await ParallelSimdTraining.start(inputs, p.rows, p.inputDim, p.targets, p.posWeight, p.hidden, 2, true);
+    try {
+      for (const withMask of [true, false]) {
+        const mask = dropoutMask(p.rows * p.hidden, 0.5, new SeededRandom(4), parallel.masks[0]);
+        const expected = single.run(p.parameters, withMask ? mask : null);
+        flattenParameters(p.parameters, parallel.parameters);
+        const actual = splitGradients(await parallel.run(withMask ? 0 : null), p.inputDim, p.hidden, p.classes);
+        assert.ok(Math.abs(actual.loss - expected.loss) < 1e-6, `loss ${actual.loss} vs ${expected.loss}`);
+        assertClose(actual.gradients.hiddenKernel, expected.gradients.hiddenKernel, 'hidden kernel gradient');
+        assertClose(actual.gradients.outputBias, expected.gradients.outputBias, 'output bias gradient');
+      }
+    } finally {
+      await parallel.dispose();
     }
   });
 

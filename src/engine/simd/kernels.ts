@@ -8,8 +8,10 @@ import { kernelsWasmBase64 } from './kernelsWasm.generated';
 /** The module's exports; pointers are byte offsets into the workspace's memory. */
 export interface KernelExports {
   heapBase(): number;
+  /** list: matMulListBytes(inner) bytes of scratch. */
   matMul(a: number, b: number, c: number, rows: number, inner: number, cols: number, list: number): void;
   matMulTransposedA(a: number, g: number, c: number, rows: number, inner: number, cols: number, accumulate: number): void;
+  /** scratch: cols × inner floats; list: matMulListBytes(cols) bytes. */
   matMulTransposedB(g: number, w: number, c: number, rows: number, cols: number, inner: number, scratch: number, list: number): void;
   spmm(rowPtr: number, colIndex: number, values: number, dense: number, out: number, rowStart: number, rowEnd: number, cols: number): void;
   spmmTransposed(
@@ -28,6 +30,11 @@ export interface KernelExports {
   columnSums(g: number, out: number, rows: number, cols: number): void;
 }
 
+/** Bytes of the index scratch matMul needs for an inner dimension (8 blocks of rows, a count and `inner` indices each). */
+export function matMulListBytes(inner: number): number {
+  return 8 * (inner + 1) * 4;
+}
+
 const PAGE_BYTES = 65536;
 // wasm32 addresses 4 GiB; V8 allows 65536 pages of 64 KiB.
 const MAX_PAGES = 65536;
@@ -35,7 +42,8 @@ const MAX_PAGES = 65536;
 let compiledModule: WebAssembly.Module | null | undefined;
 let enabled = typeof process === 'undefined' || process.env.GRAPH_CURATOR_SIMD !== '0';
 
-function kernelModule(): WebAssembly.Module | null {
+/** The compiled kernel module, or null where WebAssembly SIMD is missing. */
+export function kernelModule(): WebAssembly.Module | null {
   if (compiledModule === undefined) {
     try {
       const bytes = Uint8Array.from(atob(kernelsWasmBase64), (c) => c.charCodeAt(0));

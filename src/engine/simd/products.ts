@@ -4,7 +4,7 @@
 // that multiplies the same matrices many times (training) keeps them resident instead, see
 // denseTrainingStep.ts.
 import type { CsrMatrix } from '../graph/csr';
-import { withWorkspace, type KernelWorkspace } from './kernels';
+import { matMulListBytes, withWorkspace, type KernelWorkspace } from './kernels';
 
 /** Copies rows [rowStart, rowEnd) of `matrix` (picked through rowIndex when given) into the workspace. */
 function placeRows(
@@ -49,7 +49,7 @@ export function simdMatMulRows(
     const aAt = placeRows(workspace, a, rowIndex, inner, rowStart, rowEnd);
     const bAt = place(workspace, b, inner * columns);
     const cAt = workspace.allocate(rows * columns * 4);
-    const listAt = workspace.allocate(inner * 4);
+    const listAt = workspace.allocate(matMulListBytes(inner));
     workspace.kernels.matMul(aAt, bAt, cAt, rows, inner, columns, listAt);
     out.set(workspace.floats(cAt, rows * columns), rowStart * columns);
   });
@@ -94,7 +94,7 @@ export function simdMatMulTransposedRight(
     const wAt = place(workspace, w, inner * columns);
     const cAt = workspace.allocate(rows * inner * 4);
     const scratchAt = workspace.allocate(inner * columns * 4);
-    const listAt = workspace.allocate(columns * 4);
+    const listAt = workspace.allocate(matMulListBytes(columns));
     workspace.kernels.matMulTransposedB(gAt, wAt, cAt, rows, columns, inner, scratchAt, listAt);
     out.set(workspace.floats(cAt, rows * inner), rowStart * inner);
   });
