@@ -53,21 +53,45 @@ export function matMul(a: usize, b: usize, c: usize, rows: i32, inner: i32, cols
       for (let block = 0; block < blocks; block++) {
         const blockList = list + <usize>block * listBytes + 4;
         const row = <usize>(i0 + block * 4);
-        matMulBlock8(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
+        matMulBlock8(
+          a + row * aRow,
+          aRow,
+          b + ((<usize>j) << 2),
+          cRow,
+          c + row * cRow + ((<usize>j) << 2),
+          blockList,
+          load<i32>(blockList - 4),
+        );
       }
     }
     for (; j + 4 <= cols; j += 4) {
       for (let block = 0; block < blocks; block++) {
         const blockList = list + <usize>block * listBytes + 4;
         const row = <usize>(i0 + block * 4);
-        matMulBlock4(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
+        matMulBlock4(
+          a + row * aRow,
+          aRow,
+          b + ((<usize>j) << 2),
+          cRow,
+          c + row * cRow + ((<usize>j) << 2),
+          blockList,
+          load<i32>(blockList - 4),
+        );
       }
     }
     for (; j < cols; j++) {
       for (let block = 0; block < blocks; block++) {
         const blockList = list + <usize>block * listBytes + 4;
         const row = <usize>(i0 + block * 4);
-        matMulBlock1(a + row * aRow, aRow, b + ((<usize>j) << 2), cRow, c + row * cRow + ((<usize>j) << 2), blockList, load<i32>(blockList - 4));
+        matMulBlock1(
+          a + row * aRow,
+          aRow,
+          b + ((<usize>j) << 2),
+          cRow,
+          c + row * cRow + ((<usize>j) << 2),
+          blockList,
+          load<i32>(blockList - 4),
+        );
       }
     }
   }

@@ -9,6 +9,7 @@ import { buildAdjacency, type CsrMatrix } from '../src/engine/graph/csr';
 import { symmetricNormalized } from '../src/engine/graph/normalize';
 import { SpmmPool } from '../src/engine/graph/parallelSpmm';
 import { spmm, spmmTransposed } from '../src/engine/graph/spmm';
+import { setSimdEnabled, simdAvailable } from '../src/engine/simd/kernels';
 import { initTensorflow } from '../src/engine/tf/backend';
 import { sparseMatMul } from '../src/engine/tf/sparseMatMul';
 import { SeededRandom } from '../src/engine/util/random';
@@ -111,6 +112,16 @@ async function medianMs(run: () => unknown): Promise<Timing> {
   return [median(wall), median(cpu)];
 }
 
+/** Runs with the SIMD kernels switched off, so that the JavaScript loops are timed. */
+async function jsOnly<T>(run: () => Promise<T>): Promise<T> {
+  const previous = setSimdEnabled(false);
+  try {
+    return await run();
+  } finally {
+    setSimdEnabled(previous);
+  }
+}
+
 function findPython(): string | undefined {
   // pyenv or venv interpreters often lack Debian's torch; /usr/bin/python3 is where apt puts it.
   for (const python of ['python3', '/usr/bin/python3']) {
@@ -160,9 +171,20 @@ async function benchmarkShape(
     await medianMs(() => (normalized = symmetricNormalized(buildAdjacency(shape.nodes, edges, true)))),
   ]);
   const out = new Float32Array(shape.nodes * shape.columns);
-  ours.push(['spmm, 1 thread', 'spmm', await medianMs(() => spmm(normalized, features, shape.columns, out))]);
+  const simd = simdAvailable() ? 'WebAssembly SIMD' : 'JS (no SIMD here)';
+  ours.push(['spmm, 1 thread, JS loop', 'spmm', await jsOnly(() => medianMs(() => spmm(normalized, features, shape.columns, out)))]);
+  ours.push([`spmm, 1 thread, ${simd}`, 'spmm', await medianMs(() => spmm(normalized, features, shape.columns, out))]);
   ours.push([`SpmmPool, ${pool.threadCount} threads`, 'spmm', await medianMs(() => pool.multiply(normalized, features, shape.columns))]);
-  ours.push(['spmmTransposed, 1 thread', 'spmmTransposed', await medianMs(() => spmmTransposed(normalized, features, shape.columns, out))]);
+  ours.push([
+    'spmmTransposed, 1 thread, JS loop',
+    'spmmTransposed',
+    await jsOnly(() => medianMs(() => spmmTransposed(normalized, features, shape.columns, out))),
+  ]);
+  ours.push([
+    `spmmTransposed, 1 thread, ${simd}`,
+    'spmmTransposed',
+    await medianMs(() => spmmTransposed(normalized, features, shape.columns, out)),
+  ]);
 
   const h = tf.tensor2d(features, [shape.nodes, shape.columns]);
   // Â is symmetric, so it is its own transpose: the gradient gathers rows like the forward pass.
@@ -184,14 +206,23 @@ async function benchmarkShape(
     const once = await multiply(a, features);
     return [features, once, await multiply(a, once)];
   };
-  ours.push(['propagate [X, ÂX, Â²X], 1 thread', 'propagate', await medianMs(propagate((a, dense) => spmm(a, dense, shape.columns)))]);
+  ours.push([
+    'propagate [X, ÂX, Â²X], 1 thread, JS loop',
+    'propagate',
+    await jsOnly(() => medianMs(propagate((a, dense) => spmm(a, dense, shape.columns)))),
+  ]);
+  ours.push([
+    `propagate [X, ÂX, Â²X], 1 thread, ${simd}`,
+    'propagate',
+    await medianMs(propagate((a, dense) => spmm(a, dense, shape.columns))),
+  ]);
   ours.push([
     `propagate [X, ÂX, Â²X], ${pool.threadCount} threads`,
     'propagate',
     await medianMs(propagate((a, dense) => pool.multiply(a, dense, shape.columns))),
   ]);
 
-  const widths = [46, 9, 9, 10, 10, 8, 8];
+  const widths = [52, 9, 9, 10, 10, 8, 8];
   print('');
   print(
     `${shape.nodes.toLocaleString('en')} nodes, ${shape.edges.toLocaleString('en')} edges (${normalized.rowPtr[shape.nodes].toLocaleString('en')} entries in Â), ${shape.columns} columns`,

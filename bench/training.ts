@@ -7,7 +7,7 @@
 // 18.4 s for 200 epochs of sign on 100,000 nodes × 128 features (1.8 s to propagate).
 import * as tf from '@tensorflow/tfjs';
 import { availableParallelism, loadavg } from 'node:os';
-import { addTransposedProduct, gatherMatMul, matMulTransposedRight } from '../src/engine/dense/matmul';
+import { addTransposedProduct, gatherMatMul, matMul, matMulTransposedRight } from '../src/engine/dense/matmul';
 import { buildAdjacency } from '../src/engine/graph/csr';
 import { AdamOptimizer } from '../src/engine/models/adam';
 import { classWeightedBce, oneHotTargets, positiveWeights } from '../src/engine/models/classWeightedLoss';
@@ -17,6 +17,9 @@ import { dropoutMask, glorotUniform } from '../src/engine/models/initialisation'
 import { propagateForTraining } from '../src/engine/models/propagation';
 import { precomputePropagation, trainAndPredict } from '../src/engine/models/train';
 import { defaultModelSettings, type GraphInputs } from '../src/engine/models/types';
+import { SimdDenseTrainingStep } from '../src/engine/simd/denseTrainingStep';
+import { setSimdEnabled, simdAvailable } from '../src/engine/simd/kernels';
+import { ParallelSimdTraining } from '../src/engine/simd/parallelSimdTraining';
 import { initTensorflow } from '../src/engine/tf/backend';
 import { SeededRandom } from '../src/engine/util/random';
 
@@ -52,20 +55,69 @@ function median(values: number[]): number {
   return sorted[Math.floor(sorted.length / 2)];
 }
 
+/** Median wall and CPU milliseconds (CPU: the whole process, all threads, user + system). */
+interface StepTiming {
+  wall: number;
+  cpu: number;
+}
+
+function formatTiming(timing: StepTiming): string {
+  return `${timing.wall.toFixed(0)} ms (cpu ${timing.cpu.toFixed(0)} ms)`;
+}
+
 /** Runs `step` warmup + repeats times; returns the median milliseconds of the timed runs. */
-function timeSteps(step: () => void, repeats: number, warmup = 2): number {
+function timeSteps(step: () => void, repeats: number, warmup = 2): StepTiming {
   for (let i = 0; i < warmup; i++) step();
   const times: number[] = [];
+  const cpuTimes: number[] = [];
   for (let i = 0; i < repeats; i++) {
+    const startCpu = process.cpuUsage();
     const started = performance.now();
     step();
     times.push(performance.now() - started);
+    const used = process.cpuUsage(startCpu);
+    cpuTimes.push((used.user + used.system) / 1000);
   }
-  return median(times);
+  return { wall: median(times), cpu: median(cpuTimes) };
+}
+
+/** Runs with the SIMD kernels switched off, so that the JavaScript loops are timed. */
+function jsOnly<T>(run: () => T): T {
+  const previous = setSimdEnabled(false);
+  try {
+    return run();
+  } finally {
+    setSimdEnabled(previous);
+  }
+}
+
+/** The dense products of a training step, JS loops against the SIMD kernels (operands copied in and out). */
+function denseProducts(print: (line: string) => void): void {
+  const random = new SeededRandom(3);
+  const [rows, inner, columns] = [20_000, 128, 64];
+  const a = Float32Array.from({ length: rows * inner }, () => random.normal());
+  const b = Float32Array.from({ length: inner * columns }, () => random.normal());
+  const g = Float32Array.from({ length: rows * columns }, () => random.normal());
+  const product = new Float32Array(rows * columns);
+  const weightGradient = new Float32Array(inner * columns);
+  const back = new Float32Array(rows * inner);
+  const runs: Array<[string, () => void]> = [
+    ['A·B (matMul)', () => matMul(a, b, rows, inner, columns, product)],
+    ['Aᵀ·G (addTransposedProduct)', () => addTransposedProduct(a, null, g, inner, columns, weightGradient, 0, rows)],
+    ['G·Bᵀ (matMulTransposedRight)', () => matMulTransposedRight(g, b, rows, columns, inner, back)],
+  ];
+  const flops = 2 * rows * inner * columns;
+  for (const [name, run] of runs) {
+    const js = jsOnly(() => timeSteps(run, 3, 1));
+    const simd = timeSteps(run, 7, 2);
+    print(
+      `${name}: JS ${formatTiming(js)}; SIMD ${formatTiming(simd)} = ${(flops / simd.cpu / 1e6).toFixed(1)} GFLOPS of CPU time, ${(js.cpu / simd.cpu).toFixed(0)}× less CPU`,
+    );
+  }
 }
 
 /** (a) tfjs autograd with tfjs's own Adam (L2 added to the loss, as weight_decay does). */
-function autogradStep(p: StepProblem, repeats: number): number {
+function autogradStep(p: StepProblem, repeats: number): StepTiming {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
   const x = tf.tensor2d(p.features, [p.rows, p.inputDim]);
@@ -100,15 +152,22 @@ function autogradStep(p: StepProblem, repeats: number): number {
   return ms;
 }
 
-/** (b) tfjs matMul with the hand-written backward pass (the engine's mlp/sign path). */
-function handWrittenTfStep(p: StepProblem, repeats: number): number {
+/**
+ * (b) tfjs matMul with the hand-written backward pass (the engine's mlp/sign path without SIMD);
+ * (d) the same step on the SIMD kernels, rows resident in the kernels' memory.
+ */
+function handWrittenTfStep(
+  p: StepProblem,
+  repeats: number,
+  Step: typeof DenseTrainingStep | typeof SimdDenseTrainingStep = DenseTrainingStep,
+): StepTiming {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
   const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], {
     learningRate: 0.01,
     weightDecay: 5e-4,
   });
-  const step = new DenseTrainingStep(
+  const step = new Step(
     p.features,
     p.rows,
     p.inputDim,
@@ -127,8 +186,12 @@ function handWrittenTfStep(p: StepProblem, repeats: number): number {
   return ms;
 }
 
-/** (b2) As (b), the rows split over two worker threads, each with its own tfjs-wasm. */
-async function parallelTfStep(p: StepProblem, repeats: number): Promise<number> {
+/** (b2) As (b), the rows split over two worker threads, each with its own tfjs-wasm; (d2) the same with SIMD shards. */
+async function parallelTfStep(
+  p: StepProblem,
+  repeats: number,
+  Training: typeof ParallelDenseTraining | typeof ParallelSimdTraining = ParallelDenseTraining,
+): Promise<StepTiming> {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
   const optimiser = new AdamOptimizer([params.hiddenKernel, params.hiddenBias, params.outputKernel, params.outputBias], {
@@ -137,7 +200,7 @@ async function parallelTfStep(p: StepProblem, repeats: number): Promise<number> 
   });
   const inputs = sharedFloats(p.features.length);
   inputs.set(p.features);
-  const training = await ParallelDenseTraining.start(
+  const training = await Training.start(
     inputs,
     p.rows,
     p.inputDim,
@@ -148,23 +211,29 @@ async function parallelTfStep(p: StepProblem, repeats: number): Promise<number> 
     true,
   );
   const times: number[] = [];
+  const cpuTimes: number[] = [];
   try {
     for (let i = 0; i < repeats + 2; i++) {
+      const startCpu = process.cpuUsage();
       const started = performance.now();
       dropoutMask(training.masks[0].length, 0.5, random, training.masks[0]);
       flattenParameters(params, training.parameters);
       const { gradients } = splitGradients(await training.run(0), p.inputDim, p.hidden, p.classes);
       optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
-      if (i >= 2) times.push(performance.now() - started);
+      const used = process.cpuUsage(startCpu);
+      if (i >= 2) {
+        times.push(performance.now() - started);
+        cpuTimes.push((used.user + used.system) / 1000);
+      }
     }
   } finally {
     await training.dispose();
   }
-  return median(times);
+  return { wall: median(times), cpu: median(cpuTimes) };
 }
 
-/** (c) Our typed-array kernels (one thread), same maths as (b). */
-function typedArrayStep(p: StepProblem, repeats: number): number {
+/** (c) Our typed-array kernels (one thread), same maths as (b); they route to the SIMD kernels unless switched off. */
+function typedArrayStep(p: StepProblem, repeats: number): StepTiming {
   const random = new SeededRandom(1);
   const params = freshParameters(p, random);
   const { rows, inputDim, hidden, classes } = p;
@@ -246,12 +315,23 @@ export async function runTrainingBenchmarks(print: (line: string) => void, optio
   );
   print('# one training step, 20,000 × 128 → 64 → 10, sigmoid BCE + Adam (median ms; PyTorch 2 threads: 112)');
   await initTensorflow('cpu');
-  print(`(a) tfjs-cpu autograd: ${autogradStep(problem, 3).toFixed(0)} ms`);
+  print(`(a) tfjs-cpu autograd: ${formatTiming(autogradStep(problem, 3))}`);
   await initTensorflow('wasm');
-  print(`(a) tfjs-wasm autograd: ${autogradStep(problem, 5).toFixed(0)} ms`);
-  print(`(b) tfjs-wasm matMul, hand-written backward: ${handWrittenTfStep(problem, 9).toFixed(0)} ms`);
-  print(`(b2) as (b), rows split over 2 worker threads: ${(await parallelTfStep(problem, 9)).toFixed(0)} ms`);
-  print(`(c) typed-array kernels, one thread: ${typedArrayStep(problem, 3).toFixed(0)} ms`);
+  print(`(a) tfjs-wasm autograd: ${formatTiming(autogradStep(problem, 5))}`);
+  print(`(b) tfjs-wasm matMul, hand-written backward: ${formatTiming(handWrittenTfStep(problem, 9))}`);
+  print(`(b2) as (b), rows split over 2 worker threads: ${formatTiming(await parallelTfStep(problem, 9))}`);
+  print(`(c) typed-array kernels, JS loops, one thread: ${formatTiming(jsOnly(() => typedArrayStep(problem, 3)))}`);
+  if (simdAvailable()) {
+    print(`(c2) as (c), products on the SIMD kernels (operands copied in and out): ${formatTiming(typedArrayStep(problem, 9))}`);
+    print(
+      `(d) SIMD kernels, rows resident in wasm memory, one thread: ${formatTiming(handWrittenTfStep(problem, 9, SimdDenseTrainingStep))}`,
+    );
+    print(`(d2) as (d), rows split over 2 worker threads: ${formatTiming(await parallelTfStep(problem, 9, ParallelSimdTraining))}`);
+    print('# dense products 20,000 × 128 · 128 × 64 and its transposes (median, one thread)');
+    denseProducts(print);
+  } else {
+    print('(WebAssembly SIMD is not available here: the SIMD rows are skipped)');
+  }
 
   print('# gcn and sage, full graph: 20,000 nodes × 128 features, ~200,000 edges, 50% labelled, 10 classes, 10 epochs');
   const smaller = inventedGraph(20_000, 128, 20, 13);

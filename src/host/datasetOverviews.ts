@@ -39,6 +39,9 @@ export class DatasetOverviews implements vscode.Disposable {
   }
 
   private async invalidateFile(file: string): Promise<void> {
+    // A run writes scores.csv and embeddings.npy before run.json: only run.json finishes it.
+    const inRuns = file.split(path.sep).includes('runs');
+    if (inRuns && path.basename(file) !== 'run.json') return;
     // runs/<id>/run.json belongs to the dataset two levels up.
     const start = path.basename(file) === 'run.json' ? path.dirname(path.dirname(path.dirname(file))) : path.dirname(file);
     const folder = this.cache.has(start) ? start : await findDatasetFolder(path.join(start, 'dataset.json'));

@@ -1,6 +1,12 @@
 import assert from 'node:assert/strict';
 import { classWeightedBce, oneHotTargets, positiveWeights } from '../../src/engine/models/classWeightedLoss';
-import { DenseTrainingStep, flattenParameters, predictDense, splitGradients, type DenseParameters } from '../../src/engine/models/denseStep';
+import {
+  DenseTrainingStep,
+  flattenParameters,
+  predictDense,
+  splitGradients,
+  type DenseParameters,
+} from '../../src/engine/models/denseStep';
 import { dropoutMask, glorotUniform } from '../../src/engine/models/initialisation';
 import { predictDenseSimd, SimdDenseTrainingStep } from '../../src/engine/simd/denseTrainingStep';
 import { ParallelSimdTraining } from '../../src/engine/simd/parallelSimdTraining';

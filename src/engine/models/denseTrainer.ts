@@ -1,6 +1,9 @@
 // Training of the feature-only network (mlp on X, sign on [X, ÂX, Â²X]): full batch over the
 // labelled rows only, as the reference does, with hand-written backprop (denseStep.ts) and
 // Adam in plain typed arrays (adam.ts).
+import { predictDenseSimd, SimdDenseTrainingStep } from '../simd/denseTrainingStep';
+import { simdAvailable } from '../simd/kernels';
+import { ParallelSimdTraining } from '../simd/parallelSimdTraining';
 import { throwIfCancelled, yieldToEventLoop, type CancelSignal, type ProgressSink } from '../util/progress';
 import type { SeededRandom } from '../util/random';
 import { AdamOptimizer } from './adam';
@@ -82,7 +85,8 @@ export async function trainDenseNetwork(
     if (parallel ?? rowCount * inputDim >= parallelTrainingThreshold) {
       const sharedInputs = gatherRows(features, inputDim, train.nodeIndex, sharedFloats(rowCount * inputDim));
       const withDropout = settings.dropout > 0;
-      const training = await ParallelDenseTraining.start(
+      // The WebAssembly SIMD kernels (src/engine/simd/) when the engine has them, tfjs-wasm otherwise.
+      const training = await (simdAvailable() ? ParallelSimdTraining : ParallelDenseTraining).start(
         sharedInputs,
         rowCount,
         inputDim,
@@ -110,7 +114,7 @@ export async function trainDenseNetwork(
         await training.dispose();
       }
     } else {
-      const step = new DenseTrainingStep(
+      const step = new (simdAvailable() ? SimdDenseTrainingStep : DenseTrainingStep)(
         gatherRows(features, inputDim, train.nodeIndex),
         rowCount,
         inputDim,
@@ -137,7 +141,14 @@ export async function trainDenseNetwork(
   const trained = performance.now();
   timings.train = (timings.train ?? 0) + (trained - started) / 1000;
   throwIfCancelled(cancel);
-  const { logits, embeddings } = predictDense(features, nodeCount, inputDim, parameters, settings.hiddenUnits, cancel);
+  const { logits, embeddings } = (simdAvailable() ? predictDenseSimd : predictDense)(
+    features,
+    nodeCount,
+    inputDim,
+    parameters,
+    settings.hiddenUnits,
+    cancel,
+  );
   timings.predict = (timings.predict ?? 0) + (performance.now() - trained) / 1000;
   return { lossHistory, logits, embeddings };
 }

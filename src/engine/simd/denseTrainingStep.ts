@@ -26,7 +26,8 @@ export class SimdDenseTrainingStep {
   ) {
     const module = kernelModule();
     if (!module) throw new Error('WebAssembly SIMD kernels are not available in this JavaScript engine');
-    if (inputs.length < rowCount * inputDim) throw new Error(`training inputs hold ${inputs.length} values, need ${rowCount} × ${inputDim}`);
+    if (inputs.length < rowCount * inputDim)
+      throw new Error(`training inputs hold ${inputs.length} values, need ${rowCount} × ${inputDim}`);
     if (targets.length !== rowCount * posWeight.length) {
       throw new Error(`training targets hold ${targets.length} values, need ${rowCount} × ${posWeight.length}`);
     }

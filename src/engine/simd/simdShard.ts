@@ -153,7 +153,16 @@ export function runSimdShard(shard: SimdShard, parameters: Float32Array, mask: F
   const gradientOutputBiasAt = gradientOutputKernelAt + hiddenUnits * classCount * 4;
   k.matMulTransposedA(at.hidden, at.logits, gradientOutputKernelAt, rowCount, hiddenUnits, classCount, 0);
   k.columnSums(at.logits, gradientOutputBiasAt, rowCount, classCount);
-  k.matMulTransposedB(at.logits, outputKernelAt, at.hiddenGradient, rowCount, classCount, hiddenUnits, at.transposeScratch, at.indexScratch);
+  k.matMulTransposedB(
+    at.logits,
+    outputKernelAt,
+    at.hiddenGradient,
+    rowCount,
+    classCount,
+    hiddenUnits,
+    at.transposeScratch,
+    at.indexScratch,
+  );
   k.reluMaskBackward(at.hiddenGradient, at.hidden, maskAt, rowCount * hiddenUnits);
   k.matMulTransposedA(at.inputs, at.hiddenGradient, at.gradients, rowCount, inputDim, hiddenUnits, 0);
   k.columnSums(at.hiddenGradient, gradientHiddenBiasAt, rowCount, hiddenUnits);

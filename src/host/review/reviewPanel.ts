@@ -23,6 +23,8 @@ export class ReviewPanels implements vscode.Disposable {
   private relay: ReviewRelay | undefined;
   private panelDisposables: vscode.Disposable[] = [];
   private readonly disposables: vscode.Disposable[] = [];
+  /** Set while the extension shuts down (e.g. a window reload), when the panel must stay restorable. */
+  private shuttingDown = false;
 
   constructor(
     private readonly services: HostServices,
@@ -38,6 +40,11 @@ export class ReviewPanels implements vscode.Disposable {
           else panel.dispose();
           return Promise.resolve();
         },
+      }),
+      // Trusted now: reopen the review so that its session is also written to the run folder.
+      vscode.workspace.onDidGrantWorkspaceTrust(() => {
+        const target = this.current;
+        if (target && this.panel) void this.switchTo(target);
       }),
     );
   }
@@ -217,10 +224,11 @@ export class ReviewPanels implements vscode.Disposable {
     for (const d of this.panelDisposables.splice(0)) d.dispose();
     void relay?.dispose();
     // Closed on purpose: a reload should not bring it back (the pending decisions stay saved).
-    void this.context.workspaceState.update(reviewPanelStateKey, undefined);
+    if (!this.shuttingDown) void this.context.workspaceState.update(reviewPanelStateKey, undefined);
   }
 
   dispose(): void {
+    this.shuttingDown = true;
     for (const d of this.panelDisposables.splice(0)) d.dispose();
     for (const d of this.disposables.splice(0)) d.dispose();
     this.panel?.dispose();
