@@ -8,7 +8,13 @@ const production = process.argv.includes('--production');
 
 // tfjs and its wasm backend stay external for node targets: the wasm backend locates its
 // .wasm files inside its own package folder, and the package ships node_modules with them.
-const nodeExternals = ['vscode', '@tensorflow/tfjs', '@tensorflow/tfjs-core', '@tensorflow/tfjs-backend-wasm', '@tensorflow/tfjs-backend-cpu'];
+const nodeExternals = [
+  'vscode',
+  '@tensorflow/tfjs',
+  '@tensorflow/tfjs-core',
+  '@tensorflow/tfjs-backend-wasm',
+  '@tensorflow/tfjs-backend-cpu',
+];
 
 const common = {
   bundle: true,

@@ -14,7 +14,8 @@ async function main(): Promise<void> {
   const file = path.join(dir, 'edges.csv');
   const random = new SeededRandom(1);
   const parts: string[] = ['source,target,time\n'];
-  for (let i = 0; i < rowCount; i++) parts.push(`n${random.int(100_000)},n${random.int(100_000)},2021-0${1 + random.int(9)}-1${random.int(10)}\n`);
+  for (let i = 0; i < rowCount; i++)
+    parts.push(`n${random.int(100_000)},n${random.int(100_000)},2021-0${1 + random.int(9)}-1${random.int(10)}\n`);
   await fs.writeFile(file, parts.join(''));
   const size = (await fs.stat(file)).size;
   console.log(`file: ${rowCount.toLocaleString('en')} rows, ${(size / 1e6).toFixed(1)} MB`);
@@ -26,7 +27,9 @@ async function main(): Promise<void> {
       checksum += row.fields[0].length;
     });
     let seconds = (performance.now() - start) / 1000;
-    console.log(`ours:      ${Math.round(result.rowCount / seconds).toLocaleString('en')} rows/s (${seconds.toFixed(2)} s, includes SHA-256)`);
+    console.log(
+      `ours:      ${Math.round(result.rowCount / seconds).toLocaleString('en')} rows/s (${seconds.toFixed(2)} s, includes SHA-256)`,
+    );
 
     checksum = 0;
     let rows = 0;

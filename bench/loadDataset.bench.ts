@@ -15,7 +15,9 @@ async function main(): Promise<void> {
   const nodes: string[] = ['id,time,a,b,c,d\n'];
   const labels: string[] = ['id,label\n'];
   for (let i = 0; i < nodeCount; i++) {
-    nodes.push(`node-${i},${2015 + (i % 8)}-${String(1 + (i % 12)).padStart(2, '0')}-01,${random.next().toFixed(4)},${random.next().toFixed(4)},${random.normal().toFixed(4)},${i % 5}\n`);
+    nodes.push(
+      `node-${i},${2015 + (i % 8)}-${String(1 + (i % 12)).padStart(2, '0')}-01,${random.next().toFixed(4)},${random.next().toFixed(4)},${random.normal().toFixed(4)},${i % 5}\n`,
+    );
     if (random.next() < 0.3) labels.push(`node-${i},class-${i % 6}\n`);
   }
   const edges: string[] = ['source,target\n'];
@@ -23,7 +25,10 @@ async function main(): Promise<void> {
   await fs.writeFile(path.join(dir, 'nodes.csv'), nodes.join(''));
   await fs.writeFile(path.join(dir, 'edges.csv'), edges.join(''));
   await fs.writeFile(path.join(dir, 'labels.csv'), labels.join(''));
-  await fs.writeFile(path.join(dir, 'dataset.json'), JSON.stringify({ name: 'bench', nodeColumns: { features: ['a', 'b', 'c', 'd'] }, features: { source: 'columns' } }));
+  await fs.writeFile(
+    path.join(dir, 'dataset.json'),
+    JSON.stringify({ name: 'bench', nodeColumns: { features: ['a', 'b', 'c', 'd'] }, features: { source: 'columns' } }),
+  );
   (globalThis as { gc?: () => void }).gc?.();
   const heapBefore = process.memoryUsage().heapUsed;
   for (let round = 0; round < 2; round++) {
@@ -31,7 +36,9 @@ async function main(): Promise<void> {
     const ds = await loadDataset(dir);
     const seconds = (performance.now() - start) / 1000;
     const heap = (process.memoryUsage().heapUsed - heapBefore) / 2 ** 20;
-    console.log(`load ${ds.nodeIds.length.toLocaleString('en')} nodes, ${ds.edges.count.toLocaleString('en')} edges, ${ds.slices.length} slices: ${seconds.toFixed(2)} s, heap +${heap.toFixed(0)} MiB, rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB`);
+    console.log(
+      `load ${ds.nodeIds.length.toLocaleString('en')} nodes, ${ds.edges.count.toLocaleString('en')} edges, ${ds.slices.length} slices: ${seconds.toFixed(2)} s, heap +${heap.toFixed(0)} MiB, rss ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MiB`,
+    );
   }
   await fs.rm(dir, { recursive: true, force: true });
 }

@@ -19,7 +19,23 @@ function generate(nodes: number, features: number, edgesPerNode: number): string
   const folder = path.join(os.tmpdir(), `graph-curator-bench-${nodes}-${features}-${edgesPerNode}`);
   if (!existsSync(path.join(folder, 'dataset.json'))) {
     mkdirSync(path.dirname(folder), { recursive: true });
-    execFileSync(process.execPath, [path.join(projectRoot, 'dist', 'demo-generator.js'), '--nodes', String(nodes), '--features', String(features), '--edges-per-node', String(edgesPerNode), '--seed', '11', '--out', folder], { stdio: 'inherit' });
+    execFileSync(
+      process.execPath,
+      [
+        path.join(projectRoot, 'dist', 'demo-generator.js'),
+        '--nodes',
+        String(nodes),
+        '--features',
+        String(features),
+        '--edges-per-node',
+        String(edgesPerNode),
+        '--seed',
+        '11',
+        '--out',
+        folder,
+      ],
+      { stdio: 'inherit' },
+    );
   }
   return folder;
 }
@@ -71,13 +87,19 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
   const settings = { ...defaultRunSettings, historyWindow: 'all' as const };
   const prefix = await measure(figures, 'graph', () => prefixGraph(dataset, lastSlice));
   const propagated = await measure(figures, 'propagate', () => precomputePropagation(prefix.inputs, 2));
-  const fit = await measure(figures, 'train+score+smooth', () => fitSlice(dataset, settings, lastSlice, { labels: dataset.labels, includeCurrentSlice: true, prefix, precomputed: propagated }));
+  const fit = await measure(figures, 'train+score+smooth', () =>
+    fitSlice(dataset, settings, lastSlice, { labels: dataset.labels, includeCurrentSlice: true, prefix, precomputed: propagated }),
+  );
   const totalSeconds = (performance.now() - totalStarted) / 1000;
   let rejected = 0;
   for (const s of fit.noveltySmoothed) if (s > 0) rejected++;
-  print(`pipeline: ${dataset.nodeIds.length} nodes, ${dataset.edges.count} edges, ${dataset.featureDim} features, ${fit.training.nodes.length} training nodes, backend ${backend}`);
+  print(
+    `pipeline: ${dataset.nodeIds.length} nodes, ${dataset.edges.count} edges, ${dataset.featureDim} features, ${fit.training.nodes.length} training nodes, backend ${backend}`,
+  );
   const torch = runTorch(folder);
-  print(`  stage                 ours (s)   peak memory   ${torch ? 'PyTorch (s)   ratio' : '(PyTorch not installed: apt-get install -y python3-torch to compare)'}`);
+  print(
+    `  stage                 ours (s)   peak memory   ${torch ? 'PyTorch (s)   ratio' : '(PyTorch not installed: apt-get install -y python3-torch to compare)'}`,
+  );
   const rows: [string, number, number | undefined][] = [
     ['load', figures.load.seconds, torch?.load],
     ['graph (CSR)', figures.graph.seconds, undefined],
@@ -88,7 +110,10 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
     ['total', totalSeconds, torch?.total],
   ];
   for (const [name, ours, reference] of rows) {
-    const peak = name === 'total' ? Math.max(...Object.values(figures).map((f) => f.peakBytes)) : (figures[name === 'graph (CSR)' ? 'graph' : name]?.peakBytes ?? figures['train+score+smooth'].peakBytes);
+    const peak =
+      name === 'total'
+        ? Math.max(...Object.values(figures).map((f) => f.peakBytes))
+        : (figures[name === 'graph (CSR)' ? 'graph' : name]?.peakBytes ?? figures['train+score+smooth'].peakBytes);
     const comparison = reference !== undefined ? `${reference.toFixed(2).padStart(11)}   ${(ours / reference).toFixed(2)}x` : '';
     print(`  ${name.padEnd(20)} ${ours.toFixed(2).padStart(9)}   ${formatBytes(peak).padStart(11)}   ${comparison}`);
   }

@@ -3,7 +3,18 @@
 // for the largest smallest CIEDE2000 difference under normal vision and simulated protanopia,
 // deuteranopia and tritanopia, away from the neutral grey used for unclassified nodes.
 // test/webview/classPalette.test.ts checks the distances.
-export const classPalette: readonly string[] = ['#3366cc', '#ff8811', '#33bbff', '#886622', '#669966', '#cc88bb', '#4488ff', '#bb3388', '#99bb77', '#ff0044'];
+export const classPalette: readonly string[] = [
+  '#3366cc',
+  '#ff8811',
+  '#33bbff',
+  '#886622',
+  '#669966',
+  '#cc88bb',
+  '#4488ff',
+  '#bb3388',
+  '#99bb77',
+  '#ff0044',
+];
 
 /** The neutral the palette keeps away from; the graph draws unclassified nodes in the theme's own foreground. */
 export const paletteNeutral = '#888888';

@@ -18,7 +18,12 @@ export interface DecisionPanelEvents {
 
 function button(id: string, label: string, action: Action | null, handler: () => void, secondary = false): HTMLElement {
   const key = action ? shortcutLabel(action) : '';
-  const element = el('vscode-button', { id, secondary, title: key ? `${label} (${key})` : label }, label, key ? el('kbd', { class: 'key-hint' }, key) : null);
+  const element = el(
+    'vscode-button',
+    { id, secondary, title: key ? `${label} (${key})` : label },
+    label,
+    key ? el('kbd', { class: 'key-hint' }, key) : null,
+  );
   element.addEventListener('click', () => {
     if (!element.hasAttribute('disabled')) handler();
   });
@@ -40,7 +45,8 @@ export class DecisionPanel {
   private openForm: FormKind | null = null;
 
   constructor(private readonly events: DecisionPanelEvents) {
-    const add = (id: string, label: string, action: Action | null, handler: () => void, secondary = false) => (this.buttons[id] = button(id, label, action, handler, secondary));
+    const add = (id: string, label: string, action: Action | null, handler: () => void, secondary = false) =>
+      (this.buttons[id] = button(id, label, action, handler, secondary));
     const row = el(
       'div',
       { class: 'decision-buttons', role: 'toolbar', 'aria-label': 'Decisions' },
@@ -67,12 +73,20 @@ export class DecisionPanel {
     this.element = el('section', { class: 'decisions', 'aria-label': 'Decide' }, row, this.form);
   }
 
-  update(candidateId: string | null, candidateOpen: boolean, classes: ClassView[], queue: QueueEntry[], canUndo: boolean, canRedo: boolean): void {
+  update(
+    candidateId: string | null,
+    candidateOpen: boolean,
+    classes: ClassView[],
+    queue: QueueEntry[],
+    canUndo: boolean,
+    canRedo: boolean,
+  ): void {
     const changedCandidate = candidateId !== this.candidateId;
     this.candidateId = candidateId;
     this.classes = classes;
     this.queue = queue;
-    for (const id of ['decide-name', 'decide-merge-into', 'decide-merge-with', 'decide-split', 'decide-dismiss', 'decide-skip']) this.buttons[id].toggleAttribute('disabled', !candidateOpen);
+    for (const id of ['decide-name', 'decide-merge-into', 'decide-merge-with', 'decide-split', 'decide-dismiss', 'decide-skip'])
+      this.buttons[id].toggleAttribute('disabled', !candidateOpen);
     this.buttons['decide-merge-with'].toggleAttribute('disabled', !candidateOpen || queue.filter((q) => q.status === 'open').length < 2);
     this.buttons['undo'].toggleAttribute('disabled', !canUndo);
     this.buttons['redo'].toggleAttribute('disabled', !canRedo);
@@ -137,12 +151,17 @@ export class DecisionPanel {
 
   private classSelect(id: string, withNew: boolean): Field {
     const usable = this.classes.filter((c) => c.status !== 'merged');
-    const select = el('vscode-single-select', { id, 'aria-label': 'Class' }, ...usable.map((c) => el('vscode-option', { value: c.name }, c.name)), withNew ? el('vscode-option', { value: newClassOption }, 'New class…') : null) as Field;
+    const select = el(
+      'vscode-single-select',
+      { id, 'aria-label': 'Class' },
+      ...usable.map((c) => el('vscode-option', { value: c.name }, c.name)),
+      withNew ? el('vscode-option', { value: newClassOption }, 'New class…') : null,
+    ) as Field;
     return select;
   }
 
   private textField(id: string, placeholder: string): Field {
-    return el('vscode-textfield', { id, placeholder, 'aria-label': placeholder }) as Field;
+    return el('vscode-textfield', { id, placeholder, 'aria-label': placeholder });
   }
 
   show(kind: FormKind): void {
@@ -157,7 +176,14 @@ export class DecisionPanel {
         const name = this.textField('new-class-name', 'Class name');
         const description = this.textField('new-class-description', 'Description');
         first = name;
-        replaceChildren(this.form, el('span', { class: 'form-title' }, `Name ${this.candidateId} as a new class`), name, description, confirm, cancel);
+        replaceChildren(
+          this.form,
+          el('span', { class: 'form-title' }, `Name ${this.candidateId} as a new class`),
+          name,
+          description,
+          confirm,
+          cancel,
+        );
         break;
       }
       case 'mergeInto': {
@@ -168,7 +194,11 @@ export class DecisionPanel {
       }
       case 'mergeWith': {
         const others = this.queue.filter((q) => q.status === 'open' && q.id !== this.candidateId);
-        const select = el('vscode-single-select', { id: 'merge-candidate', 'aria-label': 'Candidate' }, ...others.map((q) => el('vscode-option', { value: q.id }, `${q.id} (${q.size}) ${q.topTerms.join(' · ')}`))) as Field;
+        const select = el(
+          'vscode-single-select',
+          { id: 'merge-candidate', 'aria-label': 'Candidate' },
+          ...others.map((q) => el('vscode-option', { value: q.id }, `${q.id} (${q.size}) ${q.topTerms.join(' · ')}`)),
+        ) as Field;
         first = select;
         replaceChildren(this.form, el('span', { class: 'form-title' }, `Merge ${this.candidateId} with`), select, confirm, cancel);
         break;
@@ -183,7 +213,18 @@ export class DecisionPanel {
           newFields.hidden = select.value !== newClassOption;
         });
         first = select;
-        replaceChildren(this.form, el('span', { class: 'form-title' }, count ? `Move ${count} selected member${count === 1 ? '' : 's'} to` : 'Select members in the table first'), select, newFields, confirm, cancel);
+        replaceChildren(
+          this.form,
+          el(
+            'span',
+            { class: 'form-title' },
+            count ? `Move ${count} selected member${count === 1 ? '' : 's'} to` : 'Select members in the table first',
+          ),
+          select,
+          newFields,
+          confirm,
+          cancel,
+        );
         break;
       }
     }

@@ -44,6 +44,13 @@ export function isTyping(event: Event): boolean {
   return event.composedPath().some((target) => {
     if (!(target instanceof HTMLElement)) return false;
     const tag = target.tagName.toLowerCase();
-    return tag === 'input' || tag === 'textarea' || tag === 'vscode-textfield' || tag === 'vscode-textarea' || tag === 'vscode-single-select' || target.isContentEditable;
+    return (
+      tag === 'input' ||
+      tag === 'textarea' ||
+      tag === 'vscode-textfield' ||
+      tag === 'vscode-textarea' ||
+      tag === 'vscode-single-select' ||
+      target.isContentEditable
+    );
   });
 }

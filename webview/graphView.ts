@@ -62,13 +62,26 @@ export class GraphView {
     this.caption = el('div', { class: 'graph-caption', id: 'graph-caption' });
     const fit = el('vscode-button', { id: 'zoom-fit', secondary: true, title: 'Zoom to fit (F)' }, 'Zoom to fit');
     fit.addEventListener('click', () => this.zoomToFit());
-    const relayout = el('vscode-button', { id: 'run-layout', secondary: true, title: 'Run the force layout again (in a worker)' }, 'Lay out');
+    const relayout = el(
+      'vscode-button',
+      { id: 'run-layout', secondary: true, title: 'Run the force layout again (in a worker)' },
+      'Lay out',
+    );
     relayout.addEventListener('click', () => {
       const graph = this.renderer?.getGraph();
-      if (graph && !this.layout?.isRunning()) this.runWorkerLayout(graph as Graph);
+      if (graph && !this.layout?.isRunning()) this.runWorkerLayout(graph);
     });
-    this.element = el('section', { class: 'graph', 'aria-label': 'Neighbourhood graph' }, el('div', { class: 'graph-toolbar' }, this.caption, relayout, fit), this.stage, this.tooltip);
-    if (!webglAvailable()) this.showUnavailable('WebGL is not available in this window, so the neighbourhood graph cannot be drawn. Everything else works: the members are listed in the table.');
+    this.element = el(
+      'section',
+      { class: 'graph', 'aria-label': 'Neighbourhood graph' },
+      el('div', { class: 'graph-toolbar' }, this.caption, relayout, fit),
+      this.stage,
+      this.tooltip,
+    );
+    if (!webglAvailable())
+      this.showUnavailable(
+        'WebGL is not available in this window, so the neighbourhood graph cannot be drawn. Everything else works: the members are listed in the table.',
+      );
   }
 
   get isAvailable(): boolean {
@@ -83,7 +96,9 @@ export class GraphView {
       this.clear();
       return;
     }
-    const edgeNote = graph.truncated ? ` (first ${graph.source.length.toLocaleString()} of ${graph.totalEdges.toLocaleString()} links shown)` : '';
+    const edgeNote = graph.truncated
+      ? ` (first ${graph.source.length.toLocaleString()} of ${graph.totalEdges.toLocaleString()} links shown)`
+      : '';
     this.caption.textContent = `${graph.memberCount} members, ${graph.nodes.ids.length - graph.memberCount} neighbours, ${graph.source.length} links${edgeNote}`;
     if (this.unavailable) return;
     // Same candidate and same nodes: recolour in place and keep the layout.
@@ -122,7 +137,8 @@ export class GraphView {
 
   private nodeColour(i: number, neutral: string): string {
     const data = this.data as NeighbourhoodGraph;
-    const cls = data.nodes.pending[i] >= 0 ? data.nodes.pending[i] : data.nodes.label[i] >= 0 ? data.nodes.label[i] : data.nodes.predicted[i];
+    const cls =
+      data.nodes.pending[i] >= 0 ? data.nodes.pending[i] : data.nodes.label[i] >= 0 ? data.nodes.label[i] : data.nodes.predicted[i];
     return cls >= 0 ? classColour(this.classes[cls]?.colour ?? cls) : neutral;
   }
 
@@ -157,9 +173,13 @@ export class GraphView {
     }
     graph.forEachNode((node) => graph.setNodeAttribute(node, 'color', this.nodeColour(Number(node), neutral)));
     try {
-      this.renderer = new Sigma(graph, this.stage, { settings: { renderLabels: false, hideEdgesOnMove: graph.size > 5000, stagePadding: 16, itemSizesReference: 'screen' } });
+      this.renderer = new Sigma(graph, this.stage, {
+        settings: { renderLabels: false, hideEdgesOnMove: graph.size > 5000, stagePadding: 16, itemSizesReference: 'screen' },
+      });
     } catch (error) {
-      this.showUnavailable(`The neighbourhood graph cannot be drawn here (${(error as Error).message}). Everything else works: the members are listed in the table.`);
+      this.showUnavailable(
+        `The neighbourhood graph cannot be drawn here (${(error as Error).message}). Everything else works: the members are listed in the table.`,
+      );
       return;
     }
     this.renderer.on('enterNode', ({ node }) => this.showTooltip(Number(node)));
@@ -183,7 +203,8 @@ export class GraphView {
    * nodes after every worker round would keep the panel busy for seconds.
    */
   private runLayout(graph: Graph): void {
-    if (graph.order <= synchronousLayoutLimit) forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
+    if (graph.order <= synchronousLayoutLimit)
+      forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
   }
 
   /** ForceAtlas2 in its worker, stopped after a fixed number of rounds (counted by the position updates it makes) rather than after a time, so a busy machine still gets a layout. */
@@ -222,7 +243,11 @@ export class GraphView {
       this.tooltip,
       el('div', { class: 'tooltip-title' }, data.nodes.ids[i], i < data.memberCount ? ' · member' : ' · neighbour'),
       el('div', { class: 'tooltip-text' }, data.nodes.texts[i]),
-      el('div', { class: 'tooltip-meta' }, `label ${className(data.nodes.label[i])} · predicted ${data.nodes.predicted[i] >= 0 ? className(data.nodes.predicted[i]) : 'rejected'}${data.nodes.pending[i] >= 0 ? ` · pending ${className(data.nodes.pending[i])}` : ''}`),
+      el(
+        'div',
+        { class: 'tooltip-meta' },
+        `label ${className(data.nodes.label[i])} · predicted ${data.nodes.predicted[i] >= 0 ? className(data.nodes.predicted[i]) : 'rejected'}${data.nodes.pending[i] >= 0 ? ` · pending ${className(data.nodes.pending[i])}` : ''}`,
+      ),
       pinned ? open : null,
     );
     this.tooltip.hidden = false;

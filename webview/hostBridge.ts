@@ -48,7 +48,7 @@ export class HostBridge {
 
   get state(): ViewState {
     const saved = this.api.getState();
-    return saved && typeof saved === 'object' ? (saved as ViewState) : {};
+    return saved && typeof saved === 'object' ? saved : {};
   }
 
   updateState(change: Partial<ViewState>): void {

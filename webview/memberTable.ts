@@ -7,7 +7,13 @@ export const rowHeight = 24;
 const overscanRows = 8;
 
 /** Rows [first, last) to draw for a viewport over rowCount rows of fixed height. */
-export function visibleRows(scrollTop: number, viewportHeight: number, rowCount: number, height = rowHeight, overscan = overscanRows): { first: number; last: number } {
+export function visibleRows(
+  scrollTop: number,
+  viewportHeight: number,
+  rowCount: number,
+  height = rowHeight,
+  overscan = overscanRows,
+): { first: number; last: number } {
   const first = Math.max(0, Math.floor(scrollTop / height) - overscan);
   const last = Math.min(rowCount, Math.ceil((scrollTop + Math.max(viewportHeight, height)) / height) + overscan);
   return { first, last: Math.max(first, last) };
@@ -25,11 +31,41 @@ const className = (classes: ClassView[], index: number) => (index >= 0 ? (classe
 
 const columns: Column[] = [
   { key: 'id', title: 'Node', className: 'col-id', text: (g, i) => g.nodes.ids[i], sortValue: (g, i) => g.nodes.ids[i] },
-  { key: 'label', title: 'Label', className: 'col-class', text: (g, i, c) => className(c, g.nodes.label[i]), sortValue: (g, i, c) => className(c, g.nodes.label[i]) },
-  { key: 'predicted', title: 'Predicted', className: 'col-class', text: (g, i, c) => className(c, g.nodes.predicted[i]) || 'rejected', sortValue: (g, i, c) => className(c, g.nodes.predicted[i]) },
-  { key: 'pending', title: 'Pending', className: 'col-class', text: (g, i, c) => className(c, g.nodes.pending[i]), sortValue: (g, i, c) => className(c, g.nodes.pending[i]) },
-  { key: 'novelty', title: 'Novelty', className: 'col-number', text: (g, i) => g.nodes.novelty[i].toFixed(3), sortValue: (g, i) => g.nodes.novelty[i] },
-  { key: 'text', title: 'Text', className: 'col-text', text: (g, i) => g.nodes.texts[i], sortValue: (g, i) => g.nodes.texts[i].toLowerCase() },
+  {
+    key: 'label',
+    title: 'Label',
+    className: 'col-class',
+    text: (g, i, c) => className(c, g.nodes.label[i]),
+    sortValue: (g, i, c) => className(c, g.nodes.label[i]),
+  },
+  {
+    key: 'predicted',
+    title: 'Predicted',
+    className: 'col-class',
+    text: (g, i, c) => className(c, g.nodes.predicted[i]) || 'rejected',
+    sortValue: (g, i, c) => className(c, g.nodes.predicted[i]),
+  },
+  {
+    key: 'pending',
+    title: 'Pending',
+    className: 'col-class',
+    text: (g, i, c) => className(c, g.nodes.pending[i]),
+    sortValue: (g, i, c) => className(c, g.nodes.pending[i]),
+  },
+  {
+    key: 'novelty',
+    title: 'Novelty',
+    className: 'col-number',
+    text: (g, i) => g.nodes.novelty[i].toFixed(3),
+    sortValue: (g, i) => g.nodes.novelty[i],
+  },
+  {
+    key: 'text',
+    title: 'Text',
+    className: 'col-text',
+    text: (g, i) => g.nodes.texts[i],
+    sortValue: (g, i) => g.nodes.texts[i].toLowerCase(),
+  },
 ];
 
 export interface MemberTableEvents {
@@ -60,7 +96,11 @@ export class MemberTable {
   private lastClicked = -1;
 
   constructor(private readonly events: MemberTableEvents) {
-    this.search = el('vscode-textfield', { id: 'member-search', placeholder: 'Search members (id or text)', 'aria-label': 'Search members' }) as HTMLElement & { value: string };
+    this.search = el('vscode-textfield', {
+      id: 'member-search',
+      placeholder: 'Search members (id or text)',
+      'aria-label': 'Search members',
+    });
     this.search.addEventListener('input', () => {
       this.refilter();
       this.emitView();
@@ -81,7 +121,12 @@ export class MemberTable {
     this.viewport.addEventListener('scroll', () => this.schedule());
     this.viewport.addEventListener('scrollend', () => this.emitView());
     new ResizeObserver(() => this.schedule()).observe(this.viewport);
-    this.element = el('section', { class: 'members', 'aria-label': 'Members' }, el('div', { class: 'members-toolbar' }, this.search, this.count), el('div', { class: 'member-table', role: 'table' }, this.header, this.viewport));
+    this.element = el(
+      'section',
+      { class: 'members', 'aria-label': 'Members' },
+      el('div', { class: 'members-toolbar' }, this.search, this.count),
+      el('div', { class: 'member-table', role: 'table' }, this.header, this.viewport),
+    );
     this.renderHeader();
   }
 
@@ -120,13 +165,28 @@ export class MemberTable {
   }
 
   private emitView(): void {
-    this.events.viewChanged({ search: this.search.value ?? '', sortColumn: this.sortColumn, sortDescending: this.sortDescending, scroll: this.viewport.scrollTop });
+    this.events.viewChanged({
+      search: this.search.value ?? '',
+      sortColumn: this.sortColumn,
+      sortDescending: this.sortDescending,
+      scroll: this.viewport.scrollTop,
+    });
   }
 
   private renderHeader(): void {
     const cells = columns.map((column) => {
       const active = column.key === this.sortColumn;
-      const button = el('button', { class: `sort-button ${column.className}`, 'data-column': column.key, 'aria-sort': active ? (this.sortDescending ? 'descending' : 'ascending') : 'none', title: `Sort by ${column.title.toLowerCase()}` }, column.title, active ? (this.sortDescending ? ' ▾' : ' ▴') : '');
+      const button = el(
+        'button',
+        {
+          class: `sort-button ${column.className}`,
+          'data-column': column.key,
+          'aria-sort': active ? (this.sortDescending ? 'descending' : 'ascending') : 'none',
+          title: `Sort by ${column.title.toLowerCase()}`,
+        },
+        column.title,
+        active ? (this.sortDescending ? ' ▾' : ' ▴') : '',
+      );
       button.addEventListener('click', () => {
         if (this.sortColumn === column.key) this.sortDescending = !this.sortDescending;
         else {
@@ -204,13 +264,23 @@ export class MemberTable {
       event.stopPropagation();
       this.toggle(i, rowIndex, (event as MouseEvent).shiftKey);
     });
-    const row = el('div', { class: `member-row${this.selected.has(i) ? ' selected' : ''}`, role: 'row', 'data-node': graph.nodes.ids[i], 'aria-rowindex': rowIndex + 1 }, el('span', { class: 'col-select' }, checkbox));
+    const row = el(
+      'div',
+      {
+        class: `member-row${this.selected.has(i) ? ' selected' : ''}`,
+        role: 'row',
+        'data-node': graph.nodes.ids[i],
+        'aria-rowindex': rowIndex + 1,
+      },
+      el('span', { class: 'col-select' }, checkbox),
+    );
     for (const column of columns) {
       const text = column.text(graph, i, this.classes);
       row.append(el('span', { class: column.className, role: 'cell', title: column.key === 'text' ? text : undefined }, text));
     }
     row.addEventListener('click', (event) => {
-      if ((event as MouseEvent).shiftKey || (event as MouseEvent).ctrlKey || (event as MouseEvent).metaKey) this.toggle(i, rowIndex, (event as MouseEvent).shiftKey);
+      if ((event as MouseEvent).shiftKey || (event as MouseEvent).ctrlKey || (event as MouseEvent).metaKey)
+        this.toggle(i, rowIndex, (event as MouseEvent).shiftKey);
       else this.events.focusNode(i);
     });
     row.addEventListener('dblclick', () => this.events.openNode(graph.nodes.ids[i]));

@@ -19,7 +19,12 @@ export class QueueView {
       ...queue.map((entry) => {
         const button = el(
           'button',
-          { class: `queue-item status-${entry.status}${entry.id === currentId ? ' current' : ''}`, 'data-candidate': entry.id, 'aria-current': entry.id === currentId ? 'true' : undefined, title: entry.topTerms.join(', ') },
+          {
+            class: `queue-item status-${entry.status}${entry.id === currentId ? ' current' : ''}`,
+            'data-candidate': entry.id,
+            'aria-current': entry.id === currentId ? 'true' : undefined,
+            title: entry.topTerms.join(', '),
+          },
           el('span', { class: 'queue-size' }, String(entry.size)),
           el('span', { class: 'queue-id' }, entry.id),
           el('span', { class: 'queue-terms' }, entry.status === 'open' ? entry.topTerms.join(' · ') : entry.status),
@@ -31,6 +36,11 @@ export class QueueView {
       }),
     );
     this.pendingTitle.textContent = `Pending decisions (${pending.length})`;
-    replaceChildren(this.pending, ...(pending.length ? pending.map((p) => el('li', { 'data-decision': p.id }, el('span', { class: 'decision-id' }, p.id), ' ', p.summary)) : [el('li', { class: 'muted' }, 'None yet.')]));
+    replaceChildren(
+      this.pending,
+      ...(pending.length
+        ? pending.map((p) => el('li', { 'data-decision': p.id }, el('span', { class: 'decision-id' }, p.id), ' ', p.summary))
+        : [el('li', { class: 'muted' }, 'None yet.')]),
+    );
   }
 }

@@ -35,7 +35,13 @@ export class ReviewApp {
       selectionChanged: (ids) => this.decisions?.selectionChanged(ids.length),
       openNode: (nodeId) => this.host.post({ type: 'openNode', nodeId }),
       focusNode: (position) => this.graph.showTooltip(position),
-      viewChanged: (view) => this.host.updateState({ search: view.search, sortColumn: view.sortColumn, sortDescending: view.sortDescending, tableScroll: view.scroll }),
+      viewChanged: (view) =>
+        this.host.updateState({
+          search: view.search,
+          sortColumn: view.sortColumn,
+          sortDescending: view.sortDescending,
+          tableScroll: view.scroll,
+        }),
     });
     this.decisions = new DecisionPanel({
       decide: (decision) => this.busy(this.host.post({ type: 'decide', decision }), 'Recording decision…'),
@@ -54,10 +60,22 @@ export class ReviewApp {
       el('dl', {}, ...shortcuts.flatMap((s) => [el('dt', {}, el('kbd', {}, s.label)), el('dd', {}, s.description)])),
       el('p', { class: 'muted' }, 'Shift-click rows to select a range; double-click a row or a graph node to open it.'),
     );
-    const helpStrip = el('footer', { class: 'help-strip', id: 'help-strip' }, ...shortcuts.filter((s) => s.action !== 'close').map((s) => el('span', {}, el('kbd', {}, s.label), ` ${s.description}`)));
-    const exportButton = el('vscode-button', { id: 'export-decisions', secondary: true, title: 'Write the pending decisions to a decisions file' }, 'Export decisions');
+    const helpStrip = el(
+      'footer',
+      { class: 'help-strip', id: 'help-strip' },
+      ...shortcuts.filter((s) => s.action !== 'close').map((s) => el('span', {}, el('kbd', {}, s.label), ` ${s.description}`)),
+    );
+    const exportButton = el(
+      'vscode-button',
+      { id: 'export-decisions', secondary: true, title: 'Write the pending decisions to a decisions file' },
+      'Export decisions',
+    );
     exportButton.addEventListener('click', () => this.busy(this.host.post({ type: 'exportDecisions' }), 'Exporting…'));
-    const applyButton = el('vscode-button', { id: 'apply-decisions', title: 'Apply the pending decisions to the label files' }, 'Apply decisions');
+    const applyButton = el(
+      'vscode-button',
+      { id: 'apply-decisions', title: 'Apply the pending decisions to the label files' },
+      'Apply decisions',
+    );
     applyButton.addEventListener('click', () => {
       if (!applyButton.hasAttribute('disabled')) this.busy(this.host.post({ type: 'applyDecisions' }), 'Applying…');
     });
@@ -65,9 +83,26 @@ export class ReviewApp {
     helpButton.addEventListener('click', () => this.toggleHelp());
     replaceChildren(
       root,
-      el('header', { class: 'panel-header' }, this.title, this.threshold.element, el('span', { class: 'header-actions' }, exportButton, applyButton, helpButton)),
+      el(
+        'header',
+        { class: 'panel-header' },
+        this.title,
+        this.threshold.element,
+        el('span', { class: 'header-actions' }, exportButton, applyButton, helpButton),
+      ),
       this.status,
-      el('main', { class: 'panel-body' }, this.queue.element, el('div', { class: 'centre' }, this.summary.element, this.decisions.element, el('div', { class: 'views' }, this.graph.element, this.table.element))),
+      el(
+        'main',
+        { class: 'panel-body' },
+        this.queue.element,
+        el(
+          'div',
+          { class: 'centre' },
+          this.summary.element,
+          this.decisions.element,
+          el('div', { class: 'views' }, this.graph.element, this.table.element),
+        ),
+      ),
       helpStrip,
       this.help,
     );
@@ -121,7 +156,14 @@ export class ReviewApp {
     const scroll = previous === null && saved.candidateId === current?.id ? saved.tableScroll : undefined;
     this.table.setData(current?.graph ?? null, snapshot.classes, current?.id ?? null, scroll);
     this.graph.show(current?.graph ?? null, snapshot.classes, current?.id ?? null);
-    this.decisions.update(current?.id ?? null, current?.status === 'open', snapshot.classes, snapshot.queue, snapshot.canUndo, snapshot.canRedo);
+    this.decisions.update(
+      current?.id ?? null,
+      current?.status === 'open',
+      snapshot.classes,
+      snapshot.queue,
+      snapshot.canUndo,
+      snapshot.canRedo,
+    );
     this.decisions.selectionChanged(this.table.selectedIds().length);
     this.threshold.setBaseline(snapshot.threshold, saved.threshold);
     this.root.querySelector('#apply-decisions')?.toggleAttribute('disabled', snapshot.pending.length === 0);

@@ -1,6 +1,21 @@
 // Keyboard shortcuts of the panel: one table drives both the key handling and the help shown.
 
-export type Action = 'next' | 'previous' | 'name' | 'mergeInto' | 'mergeWith' | 'split' | 'move' | 'dismiss' | 'skip' | 'undo' | 'redo' | 'fit' | 'search' | 'help' | 'close';
+export type Action =
+  | 'next'
+  | 'previous'
+  | 'name'
+  | 'mergeInto'
+  | 'mergeWith'
+  | 'split'
+  | 'move'
+  | 'dismiss'
+  | 'skip'
+  | 'undo'
+  | 'redo'
+  | 'fit'
+  | 'search'
+  | 'help'
+  | 'close';
 
 export interface Shortcut {
   action: Action;

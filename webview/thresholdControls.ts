@@ -20,8 +20,22 @@ function slider(id: string, label: string, min: number, max: number, step: numbe
 export class ThresholdControls {
   readonly element: HTMLElement;
   private readonly mode: Select;
-  private readonly alpha = slider('threshold-alpha', 'α', 0, 10, 0.1, 'DOC threshold width: threshold = max(0.5, 1 − α·σ); larger α rejects fewer nodes');
-  private readonly quantile = slider('threshold-quantile', 'reject', 0, 0.5, 0.005, 'Fraction of the slice’s nodes to reject, highest novelty first');
+  private readonly alpha = slider(
+    'threshold-alpha',
+    'α',
+    0,
+    10,
+    0.1,
+    'DOC threshold width: threshold = max(0.5, 1 − α·σ); larger α rejects fewer nodes',
+  );
+  private readonly quantile = slider(
+    'threshold-quantile',
+    'reject',
+    0,
+    0.5,
+    0.005,
+    'Fraction of the slice’s nodes to reject, highest novelty first',
+  );
   private readonly lambda = slider('threshold-lambda', 'λ', 0, 1, 0.05, 'Neighbour smoothing weight of the novelty scores');
   private readonly result = el('output', { class: 'threshold-result', id: 'threshold-result', 'aria-live': 'polite' });
   private setting: ThresholdSetting | null = null;
@@ -33,7 +47,12 @@ export class ThresholdControls {
     private readonly request: (setting: ThresholdSetting) => number,
     private readonly changed: (setting: ThresholdSetting) => void,
   ) {
-    this.mode = el('vscode-single-select', { id: 'threshold-mode', 'aria-label': 'Rejection rule' }, el('vscode-option', { value: 'alpha' }, 'DOC threshold (α)'), el('vscode-option', { value: 'quantile' }, 'Top fraction')) as Select;
+    this.mode = el(
+      'vscode-single-select',
+      { id: 'threshold-mode', 'aria-label': 'Rejection rule' },
+      el('vscode-option', { value: 'alpha' }, 'DOC threshold (α)'),
+      el('vscode-option', { value: 'quantile' }, 'Top fraction'),
+    );
     this.mode.addEventListener('change', () => this.update({ mode: this.mode.value === 'quantile' ? 'quantile' : 'alpha' }));
     this.alpha.input.addEventListener('input', () => this.update({ alpha: Number(this.alpha.input.value) }));
     this.quantile.input.addEventListener('input', () => this.update({ quantile: Number(this.quantile.input.value) }));
@@ -42,7 +61,16 @@ export class ThresholdControls {
     reset.addEventListener('click', () => {
       if (this.baseline) this.update(this.baseline.setting);
     });
-    this.element = el('section', { class: 'threshold', 'aria-label': 'Rejection setting' }, this.mode, this.alpha.row, this.quantile.row, this.lambda.row, reset, this.result);
+    this.element = el(
+      'section',
+      { class: 'threshold', 'aria-label': 'Rejection setting' },
+      this.mode,
+      this.alpha.row,
+      this.quantile.row,
+      this.lambda.row,
+      reset,
+      this.result,
+    );
   }
 
   /** The run's own setting from a snapshot; `saved` (view state) wins when the curator had moved the controls. */

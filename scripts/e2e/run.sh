@@ -4,7 +4,7 @@
 # code-server and drives it with Chromium. Screenshots: test-output/e2e-screenshots/.
 #
 #   E2E_SKIP_PACKAGE=1     reuse the existing .vsix instead of building one
-#   E2E_TIMEOUT_SECONDS    limit for the browser run (default 600)
+#   E2E_TIMEOUT_SECONDS    limit for the browser run (default 1200: scoring a slice alone may take 5 minutes)
 #   E2E_CACHE              where setup.sh put code-server
 set -euo pipefail
 
@@ -31,7 +31,7 @@ vsix="$(node -p 'const m = require("./package.json"); `${m.name}-${m.version}.vs
 echo "[e2e] package: $vsix, $(du -k "$vsix" | cut -f1) KiB, $package_seconds s"
 
 phase_start="$(now)"
-browser_limit="${E2E_TIMEOUT_SECONDS:-600}"
+browser_limit="${E2E_TIMEOUT_SECONDS:-1200}"
 # The driver stops code-server and Chromium itself, also on SIGTERM. `timeout` (its own process
 # group) is the last resort if the driver hangs: SIGTERM past the limit, SIGKILL 30 s later.
 # Node loads tsx in-process, so the signal reaches the driver itself, not a wrapper.

@@ -255,7 +255,13 @@ function isOptionalText(value: unknown): boolean {
 }
 
 function isDistinctNames(value: unknown, minimum: number, maximum: number): value is string[] {
-  return Array.isArray(value) && value.length >= minimum && value.length <= maximum && value.every(isName) && new Set(value).size === value.length;
+  return (
+    Array.isArray(value) &&
+    value.length >= minimum &&
+    value.length <= maximum &&
+    value.every(isName) &&
+    new Set(value).size === value.length
+  );
 }
 
 function isFraction(value: unknown): value is number {
@@ -281,7 +287,9 @@ const decisionGuards: { [K in DecisionRequest['kind']]: (d: Record<string, unkno
   'move-members': (d) => isDistinctNames(d.members, 1, maxMembers) && isName(d.className) && isOptionalText(d.description),
   'merge-classes': (d) => isName(d.from) && isName(d.into) && d.from !== d.into,
   'merge-candidates': (d) => isDistinctNames(d.candidateIds, 2, 1000),
-  'split-candidate': (d) => isName(d.candidateId) && (d.parts === undefined || (Number.isInteger(d.parts) && (d.parts as number) >= 2 && (d.parts as number) <= 20)),
+  'split-candidate': (d) =>
+    isName(d.candidateId) &&
+    (d.parts === undefined || (Number.isInteger(d.parts) && (d.parts as number) >= 2 && (d.parts as number) <= 20)),
   dismiss: (d) => isName(d.candidateId),
   skip: (d) => isName(d.candidateId),
   'keep-label': (d) => isName(d.node),
@@ -318,6 +326,7 @@ export function describeRefusedMessage(value: unknown): string {
   if (!isRecord(value)) return `refused a webview message that is not an object (${value === null ? 'null' : typeof value})`;
   const type = typeof value.type === 'string' ? value.type : String(value.type);
   if (!Object.prototype.hasOwnProperty.call(messageGuards, type)) return `refused a webview message of unknown type "${type}"`;
-  if (type === 'decide' && isRecord(value.decision)) return `refused a malformed "${String(value.decision.kind)}" decision from the webview`;
+  if (type === 'decide' && isRecord(value.decision))
+    return `refused a malformed "${String(value.decision.kind)}" decision from the webview`;
   return `refused a malformed "${type}" message from the webview`;
 }

@@ -58,7 +58,11 @@ export function summariseMembers(context: ReviewContext, id: string, members: Ar
     novelty += context.novelty[node];
   }
   const centre = meanOfRows(context.embeddings, dim, sorted);
-  const nearestMembers = Array.from(sorted, (node) => ({ node, distance: Math.sqrt(squaredDistanceBetweenRows(context.embeddings, node, centre, 0, dim)), text: context.nodeText[node] }))
+  const nearestMembers = Array.from(sorted, (node) => ({
+    node,
+    distance: Math.sqrt(squaredDistanceBetweenRows(context.embeddings, node, centre, 0, dim)),
+    text: context.nodeText[node],
+  }))
     .sort((a, b) => a.distance - b.distance || a.node - b.node)
     .slice(0, nearestMemberCount);
   const neighbourCounts = new Map<number, number>();
@@ -78,7 +82,11 @@ export function summariseMembers(context: ReviewContext, id: string, members: Ar
     .sort((a, b) => b.count - a.count || (a.className < b.className ? -1 : a.className > b.className ? 1 : 0));
   const others: number[] = [];
   for (let node = 0; node < context.nodeIds.length; node++) if (!isMember.has(node)) others.push(node);
-  const background = sampleIndices(others.length, Math.min(backgroundTextSample, others.length), new SeededRandom(deriveSeed(context.seed, 4)));
+  const background = sampleIndices(
+    others.length,
+    Math.min(backgroundTextSample, others.length),
+    new SeededRandom(deriveSeed(context.seed, 4)),
+  );
   const [topTerms] = classTfidfTopTerms(
     [Array.from(sorted, (node) => context.nodeText[node]), Array.from(background, (s) => context.nodeText[others[s]])],
     topTermCount,
@@ -105,7 +113,8 @@ export function summariseMembers(context: ReviewContext, id: string, members: Ar
  */
 export function splitMembers(context: ReviewContext, candidateId: string, members: Int32Array, parts: number): Int32Array[] {
   if (!Number.isInteger(parts) || parts < 2) throw new Error(`split: parts must be an integer ≥ 2, got ${parts}`);
-  if (members.length < parts) throw new Error(`split: candidate ${candidateId} has ${members.length} member(s), too few to split into ${parts} parts`);
+  if (members.length < parts)
+    throw new Error(`split: candidate ${candidateId} has ${members.length} member(s), too few to split into ${parts} parts`);
   const dim = context.embeddingDim;
   const points = gatherRows(context.embeddings, dim, members);
   const result = kmeans(points, dim, parts, { seed: deriveSeed(context.seed, ...Array.from(candidateId, (ch) => ch.charCodeAt(0))) });

@@ -2,7 +2,14 @@
 // every message it receives to receive() and supplies the few things only it can do (post to
 // the webview, write files, run apply, reveal a node) as callbacks.
 import type { DecisionsFile } from '../engine/decisions/types';
-import { describeRefusedMessage, isWebviewToHostMessage, type HostToWebviewMessage, type ThresholdPreviewResult, type ThresholdSetting, type WebviewToHostMessage } from '../protocol/webview';
+import {
+  describeRefusedMessage,
+  isWebviewToHostMessage,
+  type HostToWebviewMessage,
+  type ThresholdPreviewResult,
+  type ThresholdSetting,
+  type WebviewToHostMessage,
+} from '../protocol/webview';
 import { ReviewError, type ReviewSession, type ReviewSessionJson } from './reviewSession';
 import { buildSnapshot } from './snapshot';
 
@@ -79,17 +86,26 @@ export class ReviewController {
         this.changed();
         return;
       case 'previewThreshold': {
-        if (!this.actions.previewThreshold) throw new ReviewError('threshold previews need the run’s scores; score the slice again to use them');
+        if (!this.actions.previewThreshold)
+          throw new ReviewError('threshold previews need the run’s scores; score the slice again to use them');
         const preview = await this.actions.previewThreshold(message.setting);
         this.actions.post({ type: 'thresholdPreview', requestId: message.requestId, preview });
         return;
       }
       case 'exportDecisions':
-        this.actions.post({ type: 'done', requestId: message.requestId, message: await this.actions.exportDecisions(this.session.exportDecisions()) });
+        this.actions.post({
+          type: 'done',
+          requestId: message.requestId,
+          message: await this.actions.exportDecisions(this.session.exportDecisions()),
+        });
         return;
       case 'applyDecisions':
         if (this.session.pendingDecisions().length === 0) throw new ReviewError('no pending decisions to apply');
-        this.actions.post({ type: 'done', requestId: message.requestId, message: await this.actions.applyDecisions(this.session.exportDecisions()) });
+        this.actions.post({
+          type: 'done',
+          requestId: message.requestId,
+          message: await this.actions.applyDecisions(this.session.exportDecisions()),
+        });
         return;
       case 'openNode':
         await this.actions.openNode(message.nodeId);

@@ -86,13 +86,18 @@ export class ReviewSession {
       try {
         session.apply(decision);
       } catch (error) {
-        throw new ReviewError(`saved review session: decision ${decision.id} no longer fits run ${context.runId ?? '(none)'}: ${(error as Error).message}`);
+        throw new ReviewError(
+          `saved review session: decision ${decision.id} no longer fits run ${context.runId ?? '(none)'}: ${(error as Error).message}`,
+        );
       }
       session.decisions.push(decision);
       session.currentBefore.push(saved.currentBefore[k] ?? null);
     });
     session.redoStack = saved.redo.map((r) => ({ decision: r.decision, currentBefore: r.currentBefore }));
-    session.currentId = saved.currentCandidateId !== null && session.isOpen(saved.currentCandidateId) ? saved.currentCandidateId : (session.openIds()[0] ?? null);
+    session.currentId =
+      saved.currentCandidateId !== null && session.isOpen(saved.currentCandidateId)
+        ? saved.currentCandidateId
+        : (session.openIds()[0] ?? null);
     return session;
   }
 
@@ -123,7 +128,12 @@ export class ReviewSession {
   /** Open candidates in review order (fewest skips, then largest, then id), then the closed ones in creation order. */
   queue(): QueueItem[] {
     const all = [...this.entries.values()];
-    const open = all.filter((e) => e.status === 'open').sort((a, b) => a.skips - b.skips || b.candidate.members.length - a.candidate.members.length || compareText(a.candidate.id, b.candidate.id));
+    const open = all
+      .filter((e) => e.status === 'open')
+      .sort(
+        (a, b) =>
+          a.skips - b.skips || b.candidate.members.length - a.candidate.members.length || compareText(a.candidate.id, b.candidate.id),
+      );
     const closed = all.filter((e) => e.status !== 'open').sort((a, b) => a.sequence - b.sequence);
     return [...open, ...closed].map(({ candidate, status, skips }) => ({ candidate, status, skips }));
   }
@@ -147,7 +157,10 @@ export class ReviewSession {
 
   /** Known classes (merged ones marked), then classes created by pending decisions. */
   classes(): ClassEntry[] {
-    const known: ClassEntry[] = this.context.classNames.map((name) => ({ name, status: this.mergedClasses.has(name) ? 'merged' : 'known' }));
+    const known: ClassEntry[] = this.context.classNames.map((name) => ({
+      name,
+      status: this.mergedClasses.has(name) ? 'merged' : 'known',
+    }));
     return [...known, ...this.pendingClasses.map(({ name, description }) => ({ name, status: 'pending' as const, description }))];
   }
 
@@ -285,12 +298,31 @@ export class ReviewSession {
     const base = { id: this.nextDecisionId(), madeAt: this.clock().toISOString(), ...(request.note ? { note: request.note } : {}) };
     switch (request.kind) {
       case 'name-new-class':
-        return { ...base, kind: request.kind, candidateId: request.candidateId, members: this.memberIds(this.openEntry(request.candidateId).candidate.members), className: request.className.trim(), description: request.description.trim() };
+        return {
+          ...base,
+          kind: request.kind,
+          candidateId: request.candidateId,
+          members: this.memberIds(this.openEntry(request.candidateId).candidate.members),
+          className: request.className.trim(),
+          description: request.description.trim(),
+        };
       case 'merge-into-class':
-        return { ...base, kind: request.kind, candidateId: request.candidateId, members: this.memberIds(this.openEntry(request.candidateId).candidate.members), className: request.className };
+        return {
+          ...base,
+          kind: request.kind,
+          candidateId: request.candidateId,
+          members: this.memberIds(this.openEntry(request.candidateId).candidate.members),
+          className: request.className,
+        };
       case 'move-members': {
         const description = request.description?.trim();
-        return { ...base, kind: request.kind, members: [...request.members], className: request.className.trim(), ...(description ? { description } : {}) };
+        return {
+          ...base,
+          kind: request.kind,
+          members: [...request.members],
+          className: request.className.trim(),
+          ...(description ? { description } : {}),
+        };
       }
       case 'merge-classes':
         return { ...base, kind: request.kind, from: request.from, into: request.into };
@@ -321,7 +353,8 @@ export class ReviewSession {
     switch (decision.kind) {
       case 'name-new-class': {
         const entry = this.openEntry(decision.candidateId);
-        if (this.classExists(decision.className)) throw new ReviewError(`class "${decision.className}" exists already: merge into it instead`);
+        if (this.classExists(decision.className))
+          throw new ReviewError(`class "${decision.className}" exists already: merge into it instead`);
         this.checkSameMembers(entry, decision.members);
         this.pendingClasses.push({ name: decision.className, description: decision.description });
         this.labelNodes(entry.candidate.members, decision.className);
@@ -339,8 +372,10 @@ export class ReviewSession {
       case 'move-members': {
         const nodes = decision.members.map((id) => this.nodeOf(id));
         const isNew = !this.classExists(decision.className);
-        if (isNew && decision.description === undefined) throw new ReviewError(`no class "${decision.className}": give a description to create it`);
-        if (!isNew && decision.description !== undefined) throw new ReviewError(`class "${decision.className}" exists already: leave the description empty to move into it`);
+        if (isNew && decision.description === undefined)
+          throw new ReviewError(`no class "${decision.className}": give a description to create it`);
+        if (!isNew && decision.description !== undefined)
+          throw new ReviewError(`class "${decision.className}" exists already: leave the description empty to move into it`);
         if (!isNew) this.checkTargetClass(decision.className);
         if (isNew) this.pendingClasses.push({ name: decision.className, description: decision.description ?? '' });
         this.labelNodes(nodes, decision.className);
@@ -372,8 +407,14 @@ export class ReviewSession {
         const covered = new Set<number>();
         for (const part of parts) for (const node of part) covered.add(node);
         const total = parts.reduce((sum, part) => sum + part.length, 0);
-        if (total !== covered.size || covered.size !== entry.candidate.members.length || !Array.from(entry.candidate.members).every((node) => covered.has(node))) {
-          throw new ReviewError(`split of "${decision.candidateId}" does not divide its ${entry.candidate.members.length} members into disjoint parts`);
+        if (
+          total !== covered.size ||
+          covered.size !== entry.candidate.members.length ||
+          !Array.from(entry.candidate.members).every((node) => covered.has(node))
+        ) {
+          throw new ReviewError(
+            `split of "${decision.candidateId}" does not divide its ${entry.candidate.members.length} members into disjoint parts`,
+          );
         }
         const ids = parts.map((_, k) => `${decision.candidateId}.${k + 1}`);
         for (const id of ids) if (this.entries.has(id)) throw new ReviewError(`a candidate "${id}" exists already`);
@@ -410,7 +451,9 @@ export class ReviewSession {
     const expected = this.memberIds(entry.candidate.members);
     const given = new Set(members);
     if (given.size !== expected.length || !expected.every((id) => given.has(id))) {
-      throw new ReviewError(`decision lists ${members.length} member(s) but candidate "${entry.candidate.id}" has ${expected.length} others`);
+      throw new ReviewError(
+        `decision lists ${members.length} member(s) but candidate "${entry.candidate.id}" has ${expected.length} others`,
+      );
     }
   }
 
@@ -440,12 +483,15 @@ function checkSessionJson(json: unknown, context: ReviewContext): ReviewSessionJ
   if (typeof json !== 'object' || json === null) throw fail('is not a JSON object');
   const saved = json as Partial<ReviewSessionJson>;
   if (saved.format !== reviewSessionFormat) throw fail(`has format ${JSON.stringify(saved.format)}, expected "${reviewSessionFormat}"`);
-  if (saved.version !== reviewSessionVersion) throw fail(`has version ${JSON.stringify(saved.version)}; this version reads ${reviewSessionVersion}`);
+  if (saved.version !== reviewSessionVersion)
+    throw fail(`has version ${JSON.stringify(saved.version)}; this version reads ${reviewSessionVersion}`);
   if (saved.dataset !== context.dataset) throw fail(`is for dataset "${String(saved.dataset)}", not "${context.dataset}"`);
   if (saved.runId !== context.runId) throw fail(`is for run ${String(saved.runId)}, not ${String(context.runId)}`);
   if (saved.slice !== context.slice) throw fail(`is for slice ${String(saved.slice)}, not ${context.slice}`);
-  if (!Array.isArray(saved.decisions) || !Array.isArray(saved.currentBefore) || !Array.isArray(saved.redo)) throw fail('lacks its decisions, currentBefore or redo lists');
-  if (saved.currentBefore.length !== saved.decisions.length) throw fail(`has ${saved.currentBefore.length} currentBefore entries for ${saved.decisions.length} decisions`);
+  if (!Array.isArray(saved.decisions) || !Array.isArray(saved.currentBefore) || !Array.isArray(saved.redo))
+    throw fail('lacks its decisions, currentBefore or redo lists');
+  if (saved.currentBefore.length !== saved.decisions.length)
+    throw fail(`has ${saved.currentBefore.length} currentBefore entries for ${saved.decisions.length} decisions`);
   saved.decisions.forEach((decision, k) => {
     const problem = decisionProblem(decision);
     if (problem) throw fail(`decision ${k + 1} ${problem}`);
@@ -454,6 +500,7 @@ function checkSessionJson(json: unknown, context: ReviewContext): ReviewSessionJ
     const problem = decisionProblem((entry as { decision?: unknown } | null)?.decision);
     if (problem) throw fail(`redo entry ${k + 1} ${problem}`);
   });
-  if (saved.currentCandidateId !== null && typeof saved.currentCandidateId !== 'string') throw fail('has a current candidate id that is not text');
+  if (saved.currentCandidateId !== null && typeof saved.currentCandidateId !== 'string')
+    throw fail('has a current candidate id that is not text');
   return saved as ReviewSessionJson;
 }

@@ -1,7 +1,14 @@
 // The whole review state as the webview receives it (ReviewSnapshot in src/protocol/webview.ts),
 // built from the session after every change.
 import type { Decision } from '../engine/decisions/types';
-import { nodeTextCap, type CandidateView, type ClassView, type PendingDecisionView, type ReviewSnapshot, type ThresholdPreviewResult } from '../protocol/webview';
+import {
+  nodeTextCap,
+  type CandidateView,
+  type ClassView,
+  type PendingDecisionView,
+  type ReviewSnapshot,
+  type ThresholdPreviewResult,
+} from '../protocol/webview';
 import { neighbourhoodOf } from './neighbourhood';
 import type { ReviewSession } from './reviewSession';
 
@@ -61,7 +68,11 @@ export function buildSnapshot(session: ReviewSession, threshold: ThresholdPrevie
       status: session.currentStatus ?? 'open',
       topTerms: candidate.topTerms.map((t) => ({ term: t.term, weight: round(t.weight, 5) })),
       sliceCounts: candidate.sliceCounts.map((s) => ({ ...s })),
-      nearestMembers: candidate.nearestMembers.map((m) => ({ id: context.nodeIds[m.node], text: clip(m.text), distance: round(m.distance) })),
+      nearestMembers: candidate.nearestMembers.map((m) => ({
+        id: context.nodeIds[m.node],
+        text: clip(m.text),
+        distance: round(m.distance),
+      })),
       neighbourClasses: candidate.neighbourClasses.map((c) => ({ ...c })),
       meanNovelty: round(candidate.meanNovelty),
       cohesion: candidate.cohesion === null ? null : round(candidate.cohesion),

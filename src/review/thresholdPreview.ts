@@ -51,7 +51,8 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
   const candidates = input.candidates ?? [];
   const inCandidate = new Uint8Array(localCount);
   for (const members of candidates) for (const node of members) inCandidate[node] = 1;
-  const noveltyLength = input.novelty.kind === 'doc' ? input.novelty.probabilities.length / input.novelty.classCount : input.novelty.noveltyRaw.length;
+  const noveltyLength =
+    input.novelty.kind === 'doc' ? input.novelty.probabilities.length / input.novelty.classCount : input.novelty.noveltyRaw.length;
   if (noveltyLength !== localCount) throw new Error(`threshold preview: ${noveltyLength} scored rows for a graph of ${localCount} nodes`);
 
   let rawFor: { alpha: number; powers: Float32Array[] } | null = null;
@@ -90,7 +91,10 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
   return (setting) => {
     const noveltySmoothed = smoothed(setting.alpha, setting.lambda);
     // rejectedAmong reads only the fit's smoothed novelty and the settings' rejection fields.
-    const rule = { rejectQuantile: setting.mode === 'quantile' ? setting.quantile : null, noveltyMethod: input.noveltyMethod } as RunSettings;
+    const rule = {
+      rejectQuantile: setting.mode === 'quantile' ? setting.quantile : null,
+      noveltyMethod: input.noveltyMethod,
+    } as RunSettings;
     const flags = rejectedAmong({ noveltySmoothed } as PrefixFit, rule, input.scoredNodes);
     const isRejected = new Uint8Array(localCount);
     let rejected = 0;
@@ -116,11 +120,20 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
  * Preview input from the fit a run was scored with. `candidateMembers` are global node indices
  * (the open candidates' members); nodes outside the fit's prefix are ignored.
  */
-export function thresholdPreviewInputOf(dataset: Dataset, fit: PrefixFit, settings: RunSettings, candidateMembers: ArrayLike<number>[] = []): ThresholdPreviewInput {
+export function thresholdPreviewInputOf(
+  dataset: Dataset,
+  fit: PrefixFit,
+  settings: RunSettings,
+  candidateMembers: ArrayLike<number>[] = [],
+): ThresholdPreviewInput {
   const classCount = fit.modelClasses.length;
   const novelty: PreviewNovelty =
-    settings.noveltyMethod === 'doc' ? { kind: 'doc', probabilities: fit.probabilities, classCount, thresholdFit: fit.thresholdFit } : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
-  const candidates = candidateMembers.map((members) => Int32Array.from(Array.from(members, (g) => fit.prefix.localIndex[g]).filter((l) => l >= 0)));
+    settings.noveltyMethod === 'doc'
+      ? { kind: 'doc', probabilities: fit.probabilities, classCount, thresholdFit: fit.thresholdFit }
+      : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
+  const candidates = candidateMembers.map((members) =>
+    Int32Array.from(Array.from(members, (g) => fit.prefix.localIndex[g]).filter((l) => l >= 0)),
+  );
   return {
     novelty,
     noveltyMethod: settings.noveltyMethod,

@@ -37,7 +37,8 @@ export function contentSecurityPolicy(cspSource: string, nonce: string): string 
 }
 
 export function reviewPanelHtml(parts: ReviewHtmlParts): string {
-  if (!/^[A-Za-z0-9+/=_-]{16,}$/.test(parts.nonce)) throw new Error('reviewPanelHtml: the nonce must be at least 16 characters of [A-Za-z0-9+/=_-]');
+  if (!/^[A-Za-z0-9+/=_-]{16,}$/.test(parts.nonce))
+    throw new Error('reviewPanelHtml: the nonce must be at least 16 characters of [A-Za-z0-9+/=_-]');
   const title = escapeAttribute(parts.title ?? 'Review candidates');
   return `<!DOCTYPE html>
 <html lang="en">

@@ -41,7 +41,9 @@ describe('graph-curator CLI', () => {
     assert.deepEqual(await hashFolder(dir), before);
     const json = await cli('validate', dir, '--json');
     assert.equal(json.code, 1);
-    assert.deepEqual(JSON.parse(json.out), [{ file: 'edges.csv', line: 2, column: 4, message: 'edge to unknown node "zz" (not in nodes.csv)' }]);
+    assert.deepEqual(JSON.parse(json.out), [
+      { file: 'edges.csv', line: 2, column: 4, message: 'edge to unknown node "zz" (not in nodes.csv)' },
+    ]);
   });
 
   it('validate: at most 50 problem lines, then how many more', async () => {
@@ -55,8 +57,15 @@ describe('graph-curator CLI', () => {
     assert.equal(lines[50], '… and 20 more problems');
   });
 
-  it('usage errors exit 2 and print the command\'s usage', async () => {
-    for (const argv of [['validate'], ['validate', dir, 'extra'], ['validate', dir, '--bogus'], ['summary', dir, '--json=1'], ['frobnicate'], []]) {
+  it("usage errors exit 2 and print the command's usage", async () => {
+    for (const argv of [
+      ['validate'],
+      ['validate', dir, 'extra'],
+      ['validate', dir, '--bogus'],
+      ['summary', dir, '--json=1'],
+      ['frobnicate'],
+      [],
+    ]) {
       const result = await cli(...argv);
       assert.equal(result.code, 2, argv.join(' '));
       assert.match(result.err, /Usage: graph-curator/);
@@ -74,7 +83,10 @@ describe('graph-curator CLI', () => {
     assert.equal(json.code, 0);
     const summary = JSON.parse(json.out) as { nodeCount: number; slices: { edges: number }[] };
     assert.equal(summary.nodeCount, 5);
-    assert.deepEqual(summary.slices.map((s) => s.edges), [1, 1, 2]);
+    assert.deepEqual(
+      summary.slices.map((s) => s.edges),
+      [1, 1, 2],
+    );
     const broken = await cli('summary', path.join(dir, 'missing'));
     assert.equal(broken.code, 1);
     assert.match(broken.err, /folder not found/);
@@ -108,24 +120,37 @@ describe('graph-curator CLI', () => {
   });
 
   it('parses flags with values, booleans and "--"', () => {
-    const spec: CommandSpec = { name: 't', summary: '', positionals: [{ name: 'a' }, { name: 'b', optional: true }], flags: [{ name: 'out', value: 'FILE', description: '' }, { name: 'json', description: '' }, { name: 'slice', value: 'T', description: '' }] };
+    const spec: CommandSpec = {
+      name: 't',
+      summary: '',
+      positionals: [{ name: 'a' }, { name: 'b', optional: true }],
+      flags: [
+        { name: 'out', value: 'FILE', description: '' },
+        { name: 'json', description: '' },
+        { name: 'slice', value: 'T', description: '' },
+      ],
+    };
     const parsed = parseArgs(['x', '--out', 'o.json', '--slice=2021-Q3', '--json'], spec);
     assert.deepEqual(parsed.positionals, ['x']);
     assert.equal(parsed.value('out'), 'o.json');
     assert.equal(parsed.value('slice'), '2021-Q3');
     assert.equal(parsed.has('json'), true);
     assert.deepEqual(parseArgs(['--', '--weird-folder'], spec).positionals, ['--weird-folder']);
-    for (const bad of [['x', '--out'], ['x', '--json=yes'], ['x', '--json', '--json'], ['x', '-j'], []]) assert.throws(() => parseArgs(bad, spec), UsageError, bad.join(' '));
+    for (const bad of [['x', '--out'], ['x', '--json=yes'], ['x', '--json', '--json'], ['x', '-j'], []])
+      assert.throws(() => parseArgs(bad, spec), UsageError, bad.join(' '));
   });
 
   it('sets the process exit code when run as a program', async () => {
     await writeValidDataset(dir, { 'nodes.csv': 'id,time,title,x,y\n' });
     const root = path.join(__dirname, '../..');
     const run = promisify(execFile);
-    await assert.rejects(run(process.execPath, ['--import', 'tsx', path.join(root, 'src/cli/main.ts'), 'validate', dir], { cwd: root }), (error: { code: number; stdout: string }) => {
-      assert.equal(error.code, 1);
-      assert.match(error.stdout, /nodes\.csv:2:1: no nodes/);
-      return true;
-    });
+    await assert.rejects(
+      run(process.execPath, ['--import', 'tsx', path.join(root, 'src/cli/main.ts'), 'validate', dir], { cwd: root }),
+      (error: { code: number; stdout: string }) => {
+        assert.equal(error.code, 1);
+        assert.match(error.stdout, /nodes\.csv:2:1: no nodes/);
+        return true;
+      },
+    );
   });
 });

@@ -9,13 +9,22 @@ interface Parsed {
   problems: string[];
 }
 
-const copyRow = (row: CsvRow) => ({ fields: [...row.fields], line: row.line, fieldLines: [...row.fieldLines], fieldColumns: [...row.fieldColumns] });
+const copyRow = (row: CsvRow) => ({
+  fields: [...row.fields],
+  line: row.line,
+  fieldLines: [...row.fieldLines],
+  fieldColumns: [...row.fieldColumns],
+});
 
 function parseText(input: string | Uint8Array): Parsed {
   const bytes = typeof input === 'string' ? new TextEncoder().encode(input) : input;
   const rows: Parsed['rows'] = [];
   const result = parseCsvBytes(bytes, 'f.csv', (row) => rows.push(copyRow(row)));
-  return { header: result.header?.fields ?? null, rows, problems: result.problems.map((p) => `${p.file}:${p.line}:${p.column}: ${p.message}`) };
+  return {
+    header: result.header?.fields ?? null,
+    rows,
+    problems: result.problems.map((p) => `${p.file}:${p.line}:${p.column}: ${p.message}`),
+  };
 }
 
 /** Same input fed one byte at a time: every chunk boundary (including inside UTF-8 sequences). */
@@ -25,7 +34,11 @@ function parseByteByByte(input: string | Uint8Array): Parsed {
   const tokenizer = new CsvTokenizer('f.csv', (row) => rows.push(copyRow(row)));
   for (let i = 0; i < bytes.length; i++) tokenizer.push(bytes.subarray(i, i + 1));
   tokenizer.end();
-  return { header: tokenizer.header?.fields ?? null, rows, problems: tokenizer.problems.map((p) => `${p.file}:${p.line}:${p.column}: ${p.message}`) };
+  return {
+    header: tokenizer.header?.fields ?? null,
+    rows,
+    problems: tokenizer.problems.map((p) => `${p.file}:${p.line}:${p.column}: ${p.message}`),
+  };
 }
 
 describe('csv tokenizer', () => {
@@ -47,14 +60,32 @@ describe('csv tokenizer', () => {
     const crlf = parseText('a,b\r\n1,2\r\n3,4\r\n\r\n');
     const noFinalBreak = parseText('a,b\n1,2\n3,4');
     for (const p of [lf, crlf, noFinalBreak]) {
-      assert.deepEqual(p.rows.map((r) => r.fields), [['1', '2'], ['3', '4']]);
-      assert.deepEqual(p.rows.map((r) => r.line), [2, 3]);
+      assert.deepEqual(
+        p.rows.map((r) => r.fields),
+        [
+          ['1', '2'],
+          ['3', '4'],
+        ],
+      );
+      assert.deepEqual(
+        p.rows.map((r) => r.line),
+        [2, 3],
+      );
       assert.deepEqual(p.problems, []);
     }
     // A quoted CRLF stays in the field and counts as one line break.
     const quoted = parseText('a,b\r\n"x\r\ny",2\r\nz,3\r\n');
-    assert.deepEqual(quoted.rows.map((r) => r.fields), [['x\r\ny', '2'], ['z', '3']]);
-    assert.deepEqual(quoted.rows.map((r) => r.line), [2, 4]);
+    assert.deepEqual(
+      quoted.rows.map((r) => r.fields),
+      [
+        ['x\r\ny', '2'],
+        ['z', '3'],
+      ],
+    );
+    assert.deepEqual(
+      quoted.rows.map((r) => r.line),
+      [2, 4],
+    );
   });
 
   it('drops a UTF-8 BOM and does not count it in columns', () => {
@@ -65,13 +96,25 @@ describe('csv tokenizer', () => {
 
   it('keeps an empty last field and empty quoted fields', () => {
     const parsed = parseText('a,b,c\n1,,\n"",x,""\n');
-    assert.deepEqual(parsed.rows.map((r) => r.fields), [['1', '', ''], ['', 'x', '']]);
+    assert.deepEqual(
+      parsed.rows.map((r) => r.fields),
+      [
+        ['1', '', ''],
+        ['', 'x', ''],
+      ],
+    );
   });
 
   it('reports ragged rows where the extra field starts, or where a short row ends', () => {
     const parsed = parseText('a,b,c\n1,2,3,4\n1,2\n1,2,3\n');
-    assert.deepEqual(parsed.problems, ['f.csv:2:7: ragged row: 4 fields, the header has 3', 'f.csv:3:4: ragged row: 2 fields, the header has 3']);
-    assert.deepEqual(parsed.rows.map((r) => r.fields), [['1', '2', '3']]);
+    assert.deepEqual(parsed.problems, [
+      'f.csv:2:7: ragged row: 4 fields, the header has 3',
+      'f.csv:3:4: ragged row: 2 fields, the header has 3',
+    ]);
+    assert.deepEqual(
+      parsed.rows.map((r) => r.fields),
+      [['1', '2', '3']],
+    );
   });
 
   it('reports an unterminated quote at the opening quote, even many lines earlier', () => {
@@ -80,7 +123,9 @@ describe('csv tokenizer', () => {
   });
 
   it('reports a character after a closing quote', () => {
-    assert.deepEqual(parseText('a,b\n"x"y,2\n').problems, ['f.csv:2:4: unexpected character after a closing quote: a quoted field must end at a comma or line end']);
+    assert.deepEqual(parseText('a,b\n"x"y,2\n').problems, [
+      'f.csv:2:4: unexpected character after a closing quote: a quoted field must end at a comma or line end',
+    ]);
   });
 
   it('rejects invalid UTF-8 at the line and column of the bad byte', () => {
@@ -106,7 +151,16 @@ describe('csv tokenizer', () => {
   });
 
   it('validates UTF-8 like the WHATWG decoder (overlongs, surrogates, out of range)', () => {
-    const cases: number[][] = [[0xc0, 0x80], [0xe0, 0x80, 0x80], [0xed, 0xa0, 0x80], [0xf4, 0x90, 0x80, 0x80], [0xf8], [0x80], [0xe2, 0x82, 0xac], [0xf0, 0x9f, 0x98, 0x80]];
+    const cases: number[][] = [
+      [0xc0, 0x80],
+      [0xe0, 0x80, 0x80],
+      [0xed, 0xa0, 0x80],
+      [0xf4, 0x90, 0x80, 0x80],
+      [0xf8],
+      [0x80],
+      [0xe2, 0x82, 0xac],
+      [0xf0, 0x9f, 0x98, 0x80],
+    ];
     for (const c of cases) {
       const bytes = new Uint8Array([0x41, ...c]);
       let valid = true;

@@ -35,10 +35,20 @@ export const VALID_FILES: Record<string, string> = {
     null,
     2,
   ),
-  'nodes.csv': 'id,time,title,x,y\nn1,2021-01-15,blade crack,1,0\nn2,2021-02-01,gearbox oil,0,1\nn3,2021-05-20,blade erosion,1,1\nn4,2021-08-02,tower bolt,0.5,2\nn5,2021-08-03,gearbox noise,-1,3.5\n',
+  'nodes.csv':
+    'id,time,title,x,y\nn1,2021-01-15,blade crack,1,0\nn2,2021-02-01,gearbox oil,0,1\nn3,2021-05-20,blade erosion,1,1\nn4,2021-08-02,tower bolt,0.5,2\nn5,2021-08-03,gearbox noise,-1,3.5\n',
   'edges.csv': 'source,target\nn1,n2\nn2,n3\nn3,n4\nn4,n5\n',
   'labels.csv': 'id,label\nn1,blade\nn2,gearbox\nn5,gearbox\n',
-  'classes.json': JSON.stringify({ classes: [{ name: 'gearbox', description: 'drive train', introducedIn: '2021-Q1', status: 'active' }, { name: 'blade', description: '', introducedIn: '2021-Q1', status: 'active' }] }, null, 2),
+  'classes.json': JSON.stringify(
+    {
+      classes: [
+        { name: 'gearbox', description: 'drive train', introducedIn: '2021-Q1', status: 'active' },
+        { name: 'blade', description: '', introducedIn: '2021-Q1', status: 'active' },
+      ],
+    },
+    null,
+    2,
+  ),
 };
 
 export async function writeValidDataset(dir: string, overrides: FolderFiles = {}): Promise<void> {
@@ -51,7 +61,9 @@ export async function hashFolder(dir: string): Promise<Record<string, string>> {
   for (const entry of await fs.readdir(dir, { withFileTypes: true, recursive: true })) {
     if (!entry.isFile()) continue;
     const full = path.join(entry.parentPath ?? (entry as unknown as { path: string }).path, entry.name);
-    out[path.relative(dir, full)] = createHash('sha256').update(await fs.readFile(full)).digest('hex');
+    out[path.relative(dir, full)] = createHash('sha256')
+      .update(await fs.readFile(full))
+      .digest('hex');
   }
   return out;
 }

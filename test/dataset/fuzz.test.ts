@@ -51,7 +51,8 @@ describe('fuzzing the dataset parsers', () => {
     const end = Date.now() + FUZZ_MILLISECONDS;
     let rounds = 0;
     while (Date.now() < end) {
-      const bytes = random.next() < 0.5 ? randomBytes(random, random.int(200)) : mutate(random, VALID_FILES[Object.keys(VALID_FILES)[random.int(5)]]);
+      const bytes =
+        random.next() < 0.5 ? randomBytes(random, random.int(200)) : mutate(random, VALID_FILES[Object.keys(VALID_FILES)[random.int(5)]]);
       const csv = parseCsvBytes(bytes, 'fuzz.csv', (row) => assert.equal(row.fields.length, row.fieldColumns.length));
       assertLocated(csv.problems, 'csv');
       const text = new TextDecoder().decode(bytes);

@@ -15,7 +15,10 @@ describe('inferManifest', () => {
     assert.deepEqual(chooseGranularity(at(['3', '1', '2']), 'nodes.csv', problems), { granularity: 'step', sliceCount: 3 });
     const eightYears = Array.from({ length: 8 }, (_, k) => `${2015 + k}-03-01`);
     assert.equal(chooseGranularity(at(eightYears), 'nodes.csv', problems).granularity, 'year');
-    const twoYearsMonthly = Array.from({ length: 24 }, (_, k) => `${2020 + Math.floor(k / 12)}-${String((k % 12) + 1).padStart(2, '0')}-15`);
+    const twoYearsMonthly = Array.from(
+      { length: 24 },
+      (_, k) => `${2020 + Math.floor(k / 12)}-${String((k % 12) + 1).padStart(2, '0')}-15`,
+    );
     assert.equal(chooseGranularity(at(twoYearsMonthly), 'nodes.csv', problems).granularity, 'quarter');
     const sixMonths = Array.from({ length: 6 }, (_, k) => `2021-0${k + 1}`);
     assert.equal(chooseGranularity(at(sixMonths), 'nodes.csv', problems).granularity, 'month');
@@ -24,7 +27,10 @@ describe('inferManifest', () => {
     assert.deepEqual(problems, []);
     const badTime: LocatedProblem[] = [];
     chooseGranularity(at(['2021-01-01', 'yesterday']), 'nodes.csv', badTime);
-    assert.deepEqual(badTime.map((p) => `${p.line}:${p.column}`), ['3:4']);
+    assert.deepEqual(
+      badTime.map((p) => `${p.line}:${p.column}`),
+      ['3:4'],
+    );
   });
 
   it('proposes a manifest that loads: text → TF-IDF, numeric → feature columns, npy preferred', async () => {

@@ -12,10 +12,12 @@ import { formatLabelsCsv } from '../../src/engine/dataset/labelsFile';
 import { makeTempDir, removeDir, writeFolder } from './fixtures';
 
 describe('karate club dataset (graphology-generators)', () => {
-  it('round-trips through a dataset folder with 34 nodes, 78 edges and the package\'s two factions', async () => {
+  it("round-trips through a dataset folder with 34 nodes, 78 edges and the package's two factions", async () => {
     const graph = karateClub(UndirectedGraph);
     const factionSizes = new Map<string, number>();
-    graph.forEachNode((_, attributes) => factionSizes.set(attributes.club as string, (factionSizes.get(attributes.club as string) ?? 0) + 1));
+    graph.forEachNode((_, attributes) =>
+      factionSizes.set(attributes.club as string, (factionSizes.get(attributes.club as string) ?? 0) + 1),
+    );
     // The package's own data: 17 members with Mr. Hi, 17 with the Officer.
     assert.deepEqual(Object.fromEntries(factionSizes), { 'Mr. Hi': 17, Officer: 17 });
 
@@ -39,10 +41,7 @@ describe('karate club dataset (graphology-generators)', () => {
       assert.equal(ds.edges.count, 78);
       assert.deepEqual(ds.slices, [{ key: '0', index: 0, nodeCount: 34 }]);
       const summary = summarizeDataset(ds);
-      assert.deepEqual(
-        Object.fromEntries(summary.classes.map((c) => [c.name, c.labelled])),
-        { 'Mr. Hi': 17, Officer: 17 },
-      );
+      assert.deepEqual(Object.fromEntries(summary.classes.map((c) => [c.name, c.labelled])), { 'Mr. Hi': 17, Officer: 17 });
       assert.equal(summary.unlabelledShare, 0);
       // Every tie of the package's graph is an edge of the dataset, between the same members.
       for (let e = 0; e < ds.edges.count; e++) assert.ok(graph.hasEdge(ds.nodeIds[ds.edges.source[e]], ds.nodeIds[ds.edges.target[e]]));

@@ -68,7 +68,10 @@ describe('labels.csv, classes.json and label-log.jsonl', () => {
     const file = path.join(dir, 'truth.csv');
     await fs.writeFile(file, 'id,label\nn1,a\nn2,\nn1,b\n');
     const read = await readLabelsCsv(file, 'truth.csv');
-    assert.deepEqual(read.problems.map(formatProblem), ['truth.csv:3:4: empty label for node "n2": leave unlabelled nodes out of the file', 'truth.csv:4:1: duplicate id "n1": a node has at most one label']);
+    assert.deepEqual(read.problems.map(formatProblem), [
+      'truth.csv:3:4: empty label for node "n2": leave unlabelled nodes out of the file',
+      'truth.csv:4:1: duplicate id "n1": a node has at most one label',
+    ]);
     assert.deepEqual([...read.labels], [['n1', 'a']]);
   });
 
@@ -83,7 +86,10 @@ describe('labels.csv, classes.json and label-log.jsonl', () => {
     assert.deepEqual(read.problems, []);
     assert.deepEqual(read.classes, classes);
     assert.equal(await fs.readFile(file, 'utf8'), formatClassesJson(read.classes));
-    await fs.writeFile(file, '{ "classes": [\n  { "name": "a", "status": "gone" },\n  { "name": "a" },\n  { "name": "b", "mergedInto": "zz", "colour": 1 }\n] }');
+    await fs.writeFile(
+      file,
+      '{ "classes": [\n  { "name": "a", "status": "gone" },\n  { "name": "a" },\n  { "name": "b", "mergedInto": "zz", "colour": 1 }\n] }',
+    );
     assert.deepEqual((await readClassesJson(file)).problems.map(formatProblem), [
       'classes.json:2:28: "status" must be one of "active", "merged", "retired"; found "gone"',
       'classes.json:3:13: duplicate class "a"',
@@ -105,6 +111,8 @@ describe('labels.csv, classes.json and label-log.jsonl', () => {
     assert.deepEqual(read.entries, entries);
     assert.equal((await fs.readFile(file, 'utf8')).split('\n').length, 3);
     await fs.appendFile(file, '{"time":1}\n');
-    assert.deepEqual((await readLabelLog(file, 'label-log.jsonl')).problems.map(formatProblem), ['label-log.jsonl:3:1: "time" must be a string']);
+    assert.deepEqual((await readLabelLog(file, 'label-log.jsonl')).problems.map(formatProblem), [
+      'label-log.jsonl:3:1: "time" must be a string',
+    ]);
   });
 });

@@ -61,7 +61,10 @@ describe('loadDataset', () => {
     assert.deepEqual([...ds.edges.weight!], [0.5, 2]);
     assert.deepEqual([...ds.edges.edgeSlice!], [2, 0]);
     const summary = summarizeDataset(ds);
-    assert.deepEqual(summary.slices.map((s) => s.edges), [1, 0, 1]);
+    assert.deepEqual(
+      summary.slices.map((s) => s.edges),
+      [1, 0, 1],
+    );
     assert.equal(ds.contentHashes['classes.json'], undefined);
   });
 
@@ -74,14 +77,19 @@ describe('loadDataset', () => {
     const npy = await loadDataset(dir);
     assert.deepEqual([...npy.features], [...values]);
     assert.deepEqual(npy.featureNames, ['f0', 'f1', 'f2']);
-    assert.equal(npy.contentHashes['features.npy'], createHash('sha256').update(encodeNpy(values, [5, 3])).digest('hex'));
+    assert.equal(
+      npy.contentHashes['features.npy'],
+      createHash('sha256')
+        .update(encodeNpy(values, [5, 3]))
+        .digest('hex'),
+    );
     await writeValidDataset(dir, { 'dataset.json': JSON.stringify({ name: 'n', nodeColumns: { text: ['title'] } }) });
     const text = await loadDataset(dir);
     assert.deepEqual(text.featureNames, ['blade', 'bolt', 'crack', 'erosion', 'gearbox', 'noise', 'oil', 'tower']);
     assert.equal(text.features.length, 5 * 8);
   });
 
-  it('summarises nodes and edges per slice (edge in its later endpoint\'s slice) and labels per class', async () => {
+  it("summarises nodes and edges per slice (edge in its later endpoint's slice) and labels per class", async () => {
     await writeValidDataset(dir);
     const summary = summarizeDataset(await loadDataset(dir));
     assert.deepEqual(summary.slices, [
@@ -133,11 +141,17 @@ describe('loadDataset', () => {
     for (let e = 0; e < 100_000; e++) edges += `v${(e * 7919) % nodeCount},v${(e * 104729 + 1) % nodeCount}\n`;
     await fs.writeFile(path.join(dir, 'nodes.csv'), nodes);
     await fs.writeFile(path.join(dir, 'edges.csv'), edges);
-    await fs.writeFile(path.join(dir, 'dataset.json'), JSON.stringify({ name: 'big', time: { granularity: 'step' }, nodeColumns: { text: ['title'] } }));
+    await fs.writeFile(
+      path.join(dir, 'dataset.json'),
+      JSON.stringify({ name: 'big', time: { granularity: 'step' }, nodeColumns: { text: ['title'] } }),
+    );
     const ds = await loadDataset(dir);
     assert.equal(ds.edges.count, 100_000);
     assert.equal(ds.edges.source.length, 100_000);
     assert.equal(ds.edges.target[99_999], (99_999 * 104729 + 1) % nodeCount);
-    assert.deepEqual(ds.slices.map((s) => s.key), ['0', '1', '2', '3', '4', '5', '6', '7', '8', '9']);
+    assert.deepEqual(
+      ds.slices.map((s) => s.key),
+      ['0', '1', '2', '3', '4', '5', '6', '7', '8', '9'],
+    );
   });
 });

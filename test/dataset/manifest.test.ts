@@ -63,7 +63,7 @@ function wrongValueFor(schema: SchemaNode): unknown {
 }
 
 describe('dataset.json manifest', () => {
-  it('ships the schema generated from the code validator\'s field list', () => {
+  it("ships the schema generated from the code validator's field list", () => {
     // If this fails, regenerate: npx tsx -e "import { manifestJsonSchema } from './src/engine/dataset/manifestSpec'; process.stdout.write(JSON.stringify(manifestJsonSchema(), null, 2) + '\n')" > schemas/dataset.schema.json
     assert.deepEqual(shippedSchema, manifestJsonSchema());
     assert.equal(shippedSchema.type, 'object');
@@ -77,7 +77,10 @@ describe('dataset.json manifest', () => {
       const { text, line, column } = manifestWith(p, wrongValueFor(schema));
       const parsed = parseManifest(text);
       assert.equal(parsed.manifest, null, `${p} accepted a wrong value`);
-      assert.ok(parsed.problems.some((q) => q.line === line && q.column === column && q.message.includes(`"${p}"`)), `${p}: expected a problem at ${line}:${column}, got ${parsed.problems.map(formatProblem).join('; ')}`);
+      assert.ok(
+        parsed.problems.some((q) => q.line === line && q.column === column && q.message.includes(`"${p}"`)),
+        `${p}: expected a problem at ${line}:${column}, got ${parsed.problems.map(formatProblem).join('; ')}`,
+      );
     }
   });
 
@@ -86,7 +89,11 @@ describe('dataset.json manifest', () => {
       if (schema.default !== undefined) {
         const { text } = manifestWith(p, schema.default);
         // (Rules between fields may still object, e.g. an empty text list with TF-IDF features.)
-        assert.deepEqual(parseManifest(text).problems.filter((q) => q.message.startsWith(`"${p}" must`)), [], p);
+        assert.deepEqual(
+          parseManifest(text).problems.filter((q) => q.message.startsWith(`"${p}" must`)),
+          [],
+          p,
+        );
       }
       if (schema.enum) {
         assert.equal(parseManifest(manifestWith(p, 'no-such-value').text).manifest, null, p);
@@ -108,7 +115,8 @@ describe('dataset.json manifest', () => {
         const p = prefix ? `${prefix}.${k}` : k;
         return v && typeof v === 'object' && !Array.isArray(v) ? [p, ...manifestPaths(v as Record<string, unknown>, p)] : [p];
       });
-    for (const p of manifestPaths(manifest as unknown as Record<string, unknown>)) assert.ok(schemaPaths.has(p), `${p} is filled by the code but missing from the schema`);
+    for (const p of manifestPaths(manifest as unknown as Record<string, unknown>))
+      assert.ok(schemaPaths.has(p), `${p} is filled by the code but missing from the schema`);
     // Every schema property with a default is filled in by the code.
     for (const [p, schema] of schemaLeaves(shippedSchema)) {
       if (schema.default === undefined) continue;
@@ -123,8 +131,12 @@ describe('dataset.json manifest', () => {
     assert.deepEqual(problems('{\n  "name": "a",\n  "nodeColumns": { "text": ["t"] },\n  "sed": 7\n}'), [
       'dataset.json:4:3: unknown key "sed"; expected one of $schema, name, description, directed, time, files, nodeColumns, edgeColumns, features, seed',
     ]);
-    assert.deepEqual(problems('{ "name": "a", "nodeColumns": { "text": ["t"] }, "name": "b" }'), ['dataset.json:1:50: duplicate key "name"']);
-    assert.deepEqual(problems('{\n  "description": "no name",\n  "nodeColumns": { "text": ["t"] }\n}'), ['dataset.json:1:1: missing required key "name"']);
+    assert.deepEqual(problems('{ "name": "a", "nodeColumns": { "text": ["t"] }, "name": "b" }'), [
+      'dataset.json:1:50: duplicate key "name"',
+    ]);
+    assert.deepEqual(problems('{\n  "description": "no name",\n  "nodeColumns": { "text": ["t"] }\n}'), [
+      'dataset.json:1:1: missing required key "name"',
+    ]);
     assert.deepEqual(problems('{ "name": "a", "time": { "granularity": "fortnight" }, "nodeColumns": { "text": ["t"] } }'), [
       'dataset.json:1:41: "time.granularity" must be one of "year", "quarter", "month", "week", "day", "step"; found "fortnight"',
     ]);
@@ -136,8 +148,12 @@ describe('dataset.json manifest', () => {
     assert.deepEqual(problems({ name: 'a' }), [
       'dataset.json:1:1: "features.source" is "tfidf" (the default) but "nodeColumns.text" lists no text columns: list text columns, or set "features.source" to "columns" or "npy"',
     ]);
-    assert.deepEqual(problems({ name: 'a', files: { features: 'f.npy' }, nodeColumns: { text: ['t'] } }), ['dataset.json:4:17: "files.features" is only read when "features.source" is "npy" (it is "tfidf")']);
-    assert.deepEqual(problems({ name: 'a', files: { nodes: '../elsewhere.csv' }, nodeColumns: { text: ['t'] } }), ['dataset.json:4:14: "files.nodes" must be a relative path inside the dataset folder; found "../elsewhere.csv"']);
+    assert.deepEqual(problems({ name: 'a', files: { features: 'f.npy' }, nodeColumns: { text: ['t'] } }), [
+      'dataset.json:4:17: "files.features" is only read when "features.source" is "npy" (it is "tfidf")',
+    ]);
+    assert.deepEqual(problems({ name: 'a', files: { nodes: '../elsewhere.csv' }, nodeColumns: { text: ['t'] } }), [
+      'dataset.json:4:14: "files.nodes" must be a relative path inside the dataset folder; found "../elsewhere.csv"',
+    ]);
     const npy = parseManifest(JSON.stringify({ name: 'a', features: { source: 'npy' } }));
     assert.equal(npy.manifest?.files.features, 'features.npy');
   });

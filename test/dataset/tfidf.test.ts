@@ -24,10 +24,12 @@ describe('tfidf', () => {
     [0.63035731, 0, 0.77630514],
   ];
 
-  it('matches scikit-learn\'s TfidfTransformer on its documented count example', () => {
+  it("matches scikit-learn's TfidfTransformer on its documented count example", () => {
     const flat = Float32Array.from(counts.flat());
     const weighted = weightCounts(flat, 6, 3, idfOfCounts(flat, 6, 3));
-    for (let i = 0; i < 6; i++) for (let j = 0; j < 3; j++) assert.ok(Math.abs(weighted[i * 3 + j] - expected[i][j]) < 1e-6, `row ${i} col ${j}: ${weighted[i * 3 + j]}`);
+    for (let i = 0; i < 6; i++)
+      for (let j = 0; j < 3; j++)
+        assert.ok(Math.abs(weighted[i * 3 + j] - expected[i][j]) < 1e-6, `row ${i} col ${j}: ${weighted[i * 3 + j]}`);
   });
 
   it('gives the same values from text whose word counts are that example', () => {
@@ -38,10 +40,15 @@ describe('tfidf', () => {
     for (let i = 0; i < 6; i++) for (let j = 0; j < 3; j++) assert.ok(Math.abs(result.features[i * 3 + j] - expected[i][j]) < 1e-6);
   });
 
-  it('tokenizes like scikit-learn\'s default token pattern on its TfidfVectorizer example corpus', () => {
+  it("tokenizes like scikit-learn's default token pattern on its TfidfVectorizer example corpus", () => {
     // Reference: scikit-learn TfidfVectorizer documentation example; get_feature_names_out() lists
     // these nine terms and the matrix has shape (4, 9) (from memory).
-    const corpus = ['This is the first document.', 'This document is the second document.', 'And this is the third one.', 'Is this the first document?'];
+    const corpus = [
+      'This is the first document.',
+      'This document is the second document.',
+      'And this is the third one.',
+      'Is this the first document?',
+    ];
     const result = tfidfFeatures(corpus, { stopWords: NO_STOP_WORDS });
     assert.deepEqual(result.terms, ['and', 'document', 'first', 'is', 'one', 'second', 'the', 'third', 'this']);
     assert.equal(result.features.length, 4 * 9);

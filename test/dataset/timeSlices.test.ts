@@ -8,7 +8,7 @@ const key = (value: string, granularity: Parameters<typeof sliceOf>[1]): string 
 };
 
 describe('time slices', () => {
-  it('numbers ISO weeks as Python\'s datetime.date.isocalendar() does', () => {
+  it("numbers ISO weeks as Python's datetime.date.isocalendar() does", () => {
     // Reference: Python 3 datetime.date(y, m, d).isocalendar() on each date (run on this machine);
     // the same dates are the examples of the "ISO week date" article on Wikipedia.
     const expected: Record<string, string> = {
@@ -61,10 +61,19 @@ describe('time slices', () => {
   it('sorts slices in time order, not text order', () => {
     const parser = new SliceParser('step');
     const keys = ['10', '9', '-1', '100'].map((v) => parser.parse(v) as SliceKey);
-    assert.deepEqual(sortSlices(keys).map((k) => k.key), ['-1', '9', '10', '100']);
+    assert.deepEqual(
+      sortSlices(keys).map((k) => k.key),
+      ['-1', '9', '10', '100'],
+    );
     const weeks = ['2021-01-04', '2020-12-28', '2021-01-03'].map((d) => sliceOf(d, 'week') as SliceKey);
-    assert.deepEqual(sortSlices(weeks).map((k) => k.key), ['2020-W53', '2020-W53', '2021-W01']);
+    assert.deepEqual(
+      sortSlices(weeks).map((k) => k.key),
+      ['2020-W53', '2020-W53', '2021-W01'],
+    );
     const quarters = ['2022-01-01', '2021-12-31', '2021-01-01'].map((d) => sliceOf(d, 'quarter') as SliceKey);
-    assert.deepEqual(sortSlices(quarters).map((k) => k.key), ['2021-Q1', '2021-Q4', '2022-Q1']);
+    assert.deepEqual(
+      sortSlices(quarters).map((k) => k.key),
+      ['2021-Q1', '2021-Q4', '2022-Q1'],
+    );
   });
 });

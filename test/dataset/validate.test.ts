@@ -5,8 +5,10 @@ import { formatProblem } from '../../src/engine/dataset/types';
 import { hashFolder, makeTempDir, removeDir, VALID_FILES, writeValidDataset, type FolderFiles } from './fixtures';
 
 const NODE_LINES = VALID_FILES['nodes.csv'].trimEnd().split('\n');
-const nodesWith = (lineNumber: number, replacement: string): string => NODE_LINES.map((l, k) => (k + 1 === lineNumber ? replacement : l)).join('\n') + '\n';
-const manifestWith = (extra: Record<string, unknown>): string => JSON.stringify({ ...JSON.parse(VALID_FILES['dataset.json']), ...extra }, null, 2);
+const nodesWith = (lineNumber: number, replacement: string): string =>
+  NODE_LINES.map((l, k) => (k + 1 === lineNumber ? replacement : l)).join('\n') + '\n';
+const manifestWith = (extra: Record<string, unknown>): string =>
+  JSON.stringify({ ...JSON.parse(VALID_FILES['dataset.json']), ...extra }, null, 2);
 const npyManifest = manifestWith({ features: { source: 'npy' }, nodeColumns: { id: 'id', text: ['title'], features: [] } });
 
 /** Builds the valid dataset with some files replaced and returns validate's problems as text. */
@@ -50,12 +52,18 @@ describe('validateDatasetFolder', () => {
   });
 
   it('ragged row', async () => {
-    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(4, 'n3,2021-05-20,blade erosion,1') }), ['nodes.csv:4:30: ragged row: 4 fields, the header has 5']);
-    assert.deepEqual(await problemsWith({ 'edges.csv': 'source,target\nn1,n2,n3\n' }), ['edges.csv:2:7: ragged row: 3 fields, the header has 2']);
+    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(4, 'n3,2021-05-20,blade erosion,1') }), [
+      'nodes.csv:4:30: ragged row: 4 fields, the header has 5',
+    ]);
+    assert.deepEqual(await problemsWith({ 'edges.csv': 'source,target\nn1,n2,n3\n' }), [
+      'edges.csv:2:7: ragged row: 3 fields, the header has 2',
+    ]);
   });
 
   it('unterminated quote', async () => {
-    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(6, 'n5,2021-08-03,"gearbox noise,-1,3.5') }), ['nodes.csv:6:15: unterminated quoted field: the closing quote (") is missing']);
+    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(6, 'n5,2021-08-03,"gearbox noise,-1,3.5') }), [
+      'nodes.csv:6:15: unterminated quoted field: the closing quote (") is missing',
+    ]);
   });
 
   it('non-numeric, NaN and infinite feature values', async () => {
@@ -70,7 +78,9 @@ describe('validateDatasetFolder', () => {
 
   it('npy row count that does not match the node count', async () => {
     const npy = encodeNpy(new Float32Array(8), [4, 2]);
-    assert.deepEqual(await problemsWith({ 'dataset.json': npyManifest, 'features.npy': npy }), ['features.npy:1:1: shape (4, 2) has 4 rows but nodes.csv has 5 nodes']);
+    assert.deepEqual(await problemsWith({ 'dataset.json': npyManifest, 'features.npy': npy }), [
+      'features.npy:1:1: shape (4, 2) has 4 rows but nodes.csv has 5 nodes',
+    ]);
   });
 
   it('npy dtype that is not float32 or float64', async () => {
@@ -84,20 +94,29 @@ describe('validateDatasetFolder', () => {
     values[3] = NaN;
     const npy = encodeNpy(values, [5, 2]);
     // encodeNpy pads the header to 128 bytes; value 3 starts 3 × 4 bytes later.
-    assert.deepEqual(await problemsWith({ 'dataset.json': npyManifest, 'features.npy': npy }), ['features.npy:1:141: value at row 1 (node "n2"), column 1 is NaN, not a finite number']);
+    assert.deepEqual(await problemsWith({ 'dataset.json': npyManifest, 'features.npy': npy }), [
+      'features.npy:1:141: value at row 1 (node "n2"), column 1 is NaN, not a finite number',
+    ]);
   });
 
   it('label on an unknown node', async () => {
-    assert.deepEqual(await problemsWith({ 'labels.csv': VALID_FILES['labels.csv'] + 'ghost,blade\n' }), ['labels.csv:5:1: label on unknown node "ghost" (not in nodes.csv)']);
+    assert.deepEqual(await problemsWith({ 'labels.csv': VALID_FILES['labels.csv'] + 'ghost,blade\n' }), [
+      'labels.csv:5:1: label on unknown node "ghost" (not in nodes.csv)',
+    ]);
   });
 
   it('unknown granularity', async () => {
-    const manifest = '{\n  "name": "tiny",\n  "time": { "granularity": "fortnight" },\n  "nodeColumns": { "text": ["title"], "features": ["x", "y"] },\n  "features": { "source": "columns" }\n}\n';
-    assert.deepEqual(await problemsWith({ 'dataset.json': manifest }), ['dataset.json:3:28: "time.granularity" must be one of "year", "quarter", "month", "week", "day", "step"; found "fortnight"']);
+    const manifest =
+      '{\n  "name": "tiny",\n  "time": { "granularity": "fortnight" },\n  "nodeColumns": { "text": ["title"], "features": ["x", "y"] },\n  "features": { "source": "columns" }\n}\n';
+    assert.deepEqual(await problemsWith({ 'dataset.json': manifest }), [
+      'dataset.json:3:28: "time.granularity" must be one of "year", "quarter", "month", "week", "day", "step"; found "fortnight"',
+    ]);
   });
 
   it('unparseable time', async () => {
-    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(4, 'n3,2021-13-20,blade erosion,1,1') }), ["nodes.csv:4:4: unparseable time: '2021-13-20' has month 13: months run from 01 to 12"]);
+    assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(4, 'n3,2021-13-20,blade erosion,1,1') }), [
+      "nodes.csv:4:4: unparseable time: '2021-13-20' has month 13: months run from 01 to 12",
+    ]);
     assert.deepEqual(await problemsWith({ 'nodes.csv': nodesWith(3, 'n2,"last spring",gearbox oil,0,1') }), [
       "nodes.csv:3:4: unparseable time: 'last spring' is not an ISO-8601 date (YYYY, YYYY-MM, YYYY-MM-DD or a date-time)",
     ]);
@@ -105,17 +124,27 @@ describe('validateDatasetFolder', () => {
 
   it('empty file', async () => {
     assert.deepEqual(await problemsWith({ 'edges.csv': '' }), ['edges.csv:1:1: empty file: expected a header line']);
-    assert.deepEqual(await problemsWith({ 'nodes.csv': 'id,time,title,x,y\n' }), ['nodes.csv:2:1: no nodes: the file has a header but no rows']);
+    assert.deepEqual(await problemsWith({ 'nodes.csv': 'id,time,title,x,y\n' }), [
+      'nodes.csv:2:1: no nodes: the file has a header but no rows',
+    ]);
   });
 
   it('invalid UTF-8', async () => {
-    const bytes = new Uint8Array([...new TextEncoder().encode(NODE_LINES.slice(0, 3).join('\n') + '\nn3,2021-05-20,blade '), 0xe9, ...new TextEncoder().encode('rosion,1,1\n')]);
+    const bytes = new Uint8Array([
+      ...new TextEncoder().encode(NODE_LINES.slice(0, 3).join('\n') + '\nn3,2021-05-20,blade '),
+      0xe9,
+      ...new TextEncoder().encode('rosion,1,1\n'),
+    ]);
     assert.deepEqual(await problemsWith({ 'nodes.csv': bytes }), ['nodes.csv:4:21: invalid UTF-8 byte sequence: save the file as UTF-8']);
   });
 
   it('manifest not matching the schema', async () => {
-    const manifest = '{\n  "name": "tiny",\n  "directed": "yes",\n  "nodeColumns": { "text": ["title"], "features": ["x", "y"] },\n  "features": { "source": "columns", "vocabularySize": 0 }\n}\n';
-    assert.deepEqual(await problemsWith({ 'dataset.json': manifest }), ['dataset.json:3:15: "directed" must be true or false', 'dataset.json:5:56: "features.vocabularySize" must be at least 1']);
+    const manifest =
+      '{\n  "name": "tiny",\n  "directed": "yes",\n  "nodeColumns": { "text": ["title"], "features": ["x", "y"] },\n  "features": { "source": "columns", "vocabularySize": 0 }\n}\n';
+    assert.deepEqual(await problemsWith({ 'dataset.json': manifest }), [
+      'dataset.json:3:15: "directed" must be true or false',
+      'dataset.json:5:56: "features.vocabularySize" must be at least 1',
+    ]);
   });
 
   it('missing required files and columns', async () => {
@@ -127,7 +156,9 @@ describe('validateDatasetFolder', () => {
     assert.deepEqual(await problemsWith({ 'nodes.csv': noTime, 'edges.csv': 'source,target\n', 'labels.csv': 'id,label\n' }), [
       'nodes.csv:1:1: missing column "time" (time.column in dataset.json); the header has "id", "title", "x", "y"',
     ]);
-    assert.deepEqual(await problemsWith({ 'labels.csv': 'node,label\nn1,blade\n' }), ['labels.csv:1:1: missing column "id" (node id); the header has "node", "label"']);
+    assert.deepEqual(await problemsWith({ 'labels.csv': 'node,label\nn1,blade\n' }), [
+      'labels.csv:1:1: missing column "id" (node id); the header has "node", "label"',
+    ]);
     assert.deepEqual(await problemsWith({ 'dataset.json': npyManifest }), ['features.npy:0:0: file not found (features.source is "npy")']);
   });
 

@@ -11,12 +11,17 @@ import type { Browser } from 'playwright-core';
 import { installExtension, startCodeServer, type CodeServerFolders, type RunningCodeServer } from './harness/codeServer';
 import { probePackagedRuntime } from './harness/packagedRuntime';
 import { defaultVsixPath, demoDatasetFolder, logsDir, screenshotsDir } from './harness/paths';
+import { changedLabelIds, git, labelsById, logGrowth, runCandidates, snapshotLabelFiles } from './harness/labelChanges';
+import { currentCandidate, mergeIntoFirstClass, nameAsNewClass, pendingDecisionTexts, reviewFrame } from './harness/reviewPanel';
 import { StepRecorder } from './harness/steps';
 import { keepVscodeLogs, outputChannelText } from './harness/vscodeLogs';
 import {
+  acceptInputBox,
   activeEditorTabTitle,
   chooseQuickPickItem,
   clearNotifications,
+  clickDialogButton,
+  focusedQuickPickRow,
   launchBrowser,
   openWorkbench,
   paletteEntries,
@@ -24,18 +29,29 @@ import {
   statusBarCursor,
   waitForNotification,
   waitForProblemRows,
+  waitForQuickPick,
 } from './harness/workbench';
 import { copyWithDuplicateNodeId, countCsvRecords, createWorkspace } from './harness/workspace';
 
 const commandTitles = {
   validate: 'Graph Curator: Validate Dataset Folder',
   summary: 'Graph Curator: Show Dataset Summary',
+  score: 'Graph Curator: Score Slice…',
+  openReview: 'Graph Curator: Open Review Panel',
+  apply: 'Graph Curator: Apply Decisions…',
 };
 
+/** The class the review loop names; not in the demo dataset's classes.json. */
+const newClassName = 'storm-damage-test';
+/** The files an apply may commit, relative to the dataset folder. */
+const labelFiles = ['labels.csv', 'classes.json', 'label-log.jsonl'];
+
 /** Whole-run limit: a hung workbench must end the run, not the CI job's patience. */
-const runTimeoutMs = Number(process.env.E2E_TIMEOUT_SECONDS ?? 600) * 1000;
+const runTimeoutMs = Number(process.env.E2E_TIMEOUT_SECONDS ?? 1200) * 1000;
 /** Worker start-up plus a full validation of the demo dataset on a busy 2-core machine. */
 const engineRequestTimeoutMs = 120_000;
+/** Scoring the newest demo slice with default settings: 30-90 s on a loaded 2-core machine. */
+const scoreTimeoutMs = 300_000;
 
 interface Options {
   vsixPath: string;
@@ -190,6 +206,138 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       } while (!(tab.startsWith(defect.file) && cursor.startsWith(`Ln ${defect.line},`)) && Date.now() < deadline);
       assert(tab.startsWith(defect.file), `opening the problem showed the tab "${tab}", expected ${defect.file}`);
       assert(cursor.startsWith(`Ln ${defect.line},`), `opening the problem put the cursor at "${cursor}", expected line ${defect.line}`);
+    });
+
+    await steps.step('remove-broken-copy', 60_000, async () => {
+      // The review loop works on the demo copy: with the broken copy's nodes.csv active (or two
+      // dataset.json files), the dataset commands would pick or ask for the broken one.
+      await runCommand(page, 'View: Close All Editors');
+      rmSync(brokenFolder, { recursive: true, force: true });
+      await clearNotifications(page);
+    });
+
+    const before = snapshotLabelFiles(workspace.datasetFolder);
+
+    const candidateCount = await steps.step('score-newest-slice', scoreTimeoutMs + engineRequestTimeoutMs, async () => {
+      await runCommand(page, commandTitles.score);
+      await waitForQuickPick(page, 'Slice to score (newest first)', engineRequestTimeoutMs);
+      const focused = await focusedQuickPickRow(page);
+      assert(focused.includes('(newest)'), `the slice pick preselects "${focused}", expected the newest slice`);
+      await page.keyboard.press('Enter');
+      const scored = await waitForNotification(page, new RegExp(`^Scored \\S+ of ${escapeRegExp(datasetName)}:`), scoreTimeoutMs);
+      console.log(`       ${scored}`);
+      const count = Number(/(\d+) candidate class/.exec(scored)?.[1] ?? 0);
+      assert(count >= 2, `scoring found ${count} candidate classes; the review loop needs two: "${scored}"`);
+      return count;
+    });
+
+    const frame = reviewFrame(page);
+    const firstCandidate = await steps.step('open-review-panel', engineRequestTimeoutMs, async () => {
+      await clearNotifications(page);
+      await runCommand(page, commandTitles.openReview);
+      const shown = await currentCandidate(frame, engineRequestTimeoutMs - 15_000);
+      const queued = await frame.locator('#queue-list .queue-item').count();
+      assert(queued === candidateCount, `the queue lists ${queued} candidates, the scoring reported ${candidateCount}`);
+      return shown;
+    });
+
+    const secondCandidate = await steps.step('name-first-candidate', 60_000, async () => {
+      await nameAsNewClass(frame, newClassName, 'Blade and nacelle damage after storms (end-to-end test).', 1);
+      const next = await currentCandidate(frame, 15_000);
+      assert(next !== firstCandidate, `the panel still shows ${firstCandidate} after naming it`);
+      return next;
+    });
+
+    const mergeTarget = await steps.step('merge-second-candidate', 60_000, async () => {
+      const target = await mergeIntoFirstClass(frame, 2);
+      const pending = await pendingDecisionTexts(frame);
+      console.log(`       pending: ${pending.join(' | ')}`);
+      assert(target !== '' && target !== newClassName, `the class choice offered "${target}" first, expected an existing class`);
+      return target;
+    });
+
+    await steps.step('apply-and-commit', engineRequestTimeoutMs * 2, async () => {
+      await runCommand(page, commandTitles.apply);
+      const dialog = await clickDialogButton(
+        page,
+        new RegExp(`Apply \\d+ label changes? to ${escapeRegExp(datasetName)}\\?`),
+        'Apply and Commit…',
+        engineRequestTimeoutMs,
+      );
+      console.log(`       dialog: ${dialog.slice(0, 200)}`);
+      const subject = await acceptInputBox(page, 'Commit the label files', engineRequestTimeoutMs);
+      console.log(`       commit subject: ${subject}`);
+      const applied = await waitForNotification(page, /^Applied \d+ label changes?/, engineRequestTimeoutMs);
+      console.log(`       ${applied}`);
+      assert(/Committed [0-9a-f]{12}/.test(applied), `the apply did not commit: "${applied}"`);
+    });
+
+    await steps.step('label-files-on-disk', 30_000, () => {
+      const after = snapshotLabelFiles(workspace.datasetFolder);
+      const { members } = runCandidates(workspace.datasetFolder);
+      const named = members.get(firstCandidate);
+      const merged = members.get(secondCandidate);
+      assert(named !== undefined && merged !== undefined, `candidates.json lacks ${firstCandidate} or ${secondCandidate}`);
+      const oldLabels = labelsById(before.labelLines);
+      const newLabels = labelsById(after.labelLines);
+      // Every member now carries its decision's class; the nodes whose label differed before are
+      // exactly the ones whose labels.csv line may change.
+      const expected = new Set<string>();
+      for (const [ids, label] of [
+        [named, newClassName],
+        [merged, mergeTarget],
+      ] as const) {
+        for (const id of ids) {
+          assert(newLabels.get(id) === label, `node ${id} is labelled "${newLabels.get(id)}" after the apply, expected "${label}"`);
+          if (oldLabels.get(id) !== label) expected.add(id);
+        }
+      }
+      const changed = changedLabelIds(before.labelLines, after.labelLines);
+      const unexpected = [...changed.ids].filter((id) => !expected.has(id));
+      const unchanged = [...expected].filter((id) => !changed.ids.has(id));
+      assert(
+        unexpected.length === 0,
+        `labels.csv changed on lines of nodes outside both candidates: ${unexpected.slice(0, 10).join(', ')}`,
+      );
+      assert(unchanged.length === 0, `labels.csv did not change for members: ${unchanged.slice(0, 10).join(', ')}`);
+      assert(expected.size > 0, 'the two decisions changed no label');
+      console.log(`       labels.csv: ${changed.removed.length} lines removed, ${changed.added.length} added, ${changed.ids.size} nodes`);
+
+      const growth = logGrowth(before.logText, after.logText);
+      const loggedNodes = new Set(growth.nodeLines.map((line) => line.node));
+      assert(
+        growth.nodeLines.length === changed.ids.size && [...changed.ids].every((id) => loggedNodes.has(id)),
+        `label-log.jsonl gained ${growth.nodeLines.length} node lines for ${loggedNodes.size} nodes; labels.csv changed for ${changed.ids.size}`,
+      );
+      const phases = growth.markerLines.map((marker) => marker.phase).join(',');
+      const batches = new Set([...growth.markerLines, ...growth.nodeLines].map((line) => line.batch));
+      assert(
+        phases === 'begin,commit' && batches.size === 1,
+        `label-log.jsonl gained batch markers "${phases}" over batches ${[...batches].join(', ')}`,
+      );
+
+      const classes = JSON.parse(after.classesText) as { classes: { name: string; status: string }[] };
+      assert(
+        classes.classes.some((c) => c.name === newClassName && c.status === 'active'),
+        `classes.json has no active class "${newClassName}"`,
+      );
+      return Promise.resolve();
+    });
+
+    await steps.step('one-git-commit', 30_000, () => {
+      const datasetPath = path.relative(workspace.root, workspace.datasetFolder);
+      const count = git(workspace.root, 'rev-list', '--count', 'HEAD');
+      assert(count === '2', `git has ${count} commits, expected the initial one and the apply's`);
+      const files = git(workspace.root, 'show', '--name-only', '--format=', 'HEAD').split('\n').filter(Boolean).sort();
+      const expectedFiles = labelFiles.map((file) => `${datasetPath}/${file}`).sort();
+      assert(
+        files.join(',') === expectedFiles.join(','),
+        `the new commit touches ${files.join(', ')}; expected ${expectedFiles.join(', ')}`,
+      );
+      const dirty = git(workspace.root, 'status', '--porcelain', '--', ...expectedFiles);
+      assert(dirty === '', `the label files differ from the commit: ${dirty}`);
+      console.log(`       ${git(workspace.root, 'log', '-1', '--format=%h %s')}`);
+      return Promise.resolve();
     });
   } catch (error) {
     keepVscodeLogs(folders.userDataDir, failureLogs);

@@ -69,7 +69,19 @@ describe('score, discover and evaluate from the command line', function () {
 
   it('reports the graph model beside the MLP baseline, and the graph model is better on linked data', async () => {
     const { folder, truthFile } = await smallDataset();
-    const result = await cli('evaluate', folder, '--truth', truthFile, '--json', '--epochs', '60', '--threshold-folds', '0', '--history', '4');
+    const result = await cli(
+      'evaluate',
+      folder,
+      '--truth',
+      truthFile,
+      '--json',
+      '--epochs',
+      '60',
+      '--threshold-folds',
+      '0',
+      '--history',
+      '4',
+    );
     assert.equal(result.code, 0, result.err);
     const report = JSON.parse(result.out) as EvaluationReport;
     assert.equal(report.graphModel.perSlice.length, 24);

@@ -15,7 +15,13 @@ describe('DOC thresholds with a robust scale, and the unclamped margin', () => {
     const rows: number[] = [];
     for (const p of p0) rows.push(p, 0.1, 0.1);
     for (const p of p1) rows.push(0.2, p, 0.1);
-    const thresholds = docThresholdsRobust(Float32Array.from(rows), 3, Int32Array.from([0, 1, 2, 3, 4, 5, 6]), Int32Array.from([0, 0, 0, 0, 0, 1, 1]), 3);
+    const thresholds = docThresholdsRobust(
+      Float32Array.from(rows),
+      3,
+      Int32Array.from([0, 1, 2, 3, 4, 5, 6]),
+      Int32Array.from([0, 0, 0, 0, 0, 1, 1]),
+      3,
+    );
     assert.ok(Math.abs(thresholds[0] - 0.55522) < 1e-5, `class 0: ${thresholds[0]}`);
     assert.ok(Math.abs(thresholds[1] - 0.911044) < 1e-5, `class 1: ${thresholds[1]}`);
     assert.equal(thresholds[2], 0.5);

@@ -8,8 +8,20 @@ describe('training window and graph prefix', () => {
   it('takes the labels of slices t − H through t, or through t − 1 when the slice is the test set', async () => {
     const dataset = await loadSmall();
     const slice = 10;
-    const withCurrent = selectTrainingNodes(dataset, dataset.labels, { slice, historyWindow: 3, includeCurrentSlice: true, labelRate: 1, seed: 1 });
-    const without = selectTrainingNodes(dataset, dataset.labels, { slice, historyWindow: 3, includeCurrentSlice: false, labelRate: 1, seed: 1 });
+    const withCurrent = selectTrainingNodes(dataset, dataset.labels, {
+      slice,
+      historyWindow: 3,
+      includeCurrentSlice: true,
+      labelRate: 1,
+      seed: 1,
+    });
+    const without = selectTrainingNodes(dataset, dataset.labels, {
+      slice,
+      historyWindow: 3,
+      includeCurrentSlice: false,
+      labelRate: 1,
+      seed: 1,
+    });
     let expectedWith = 0;
     let expectedWithout = 0;
     dataset.labels.forEach((label, node) => {

@@ -91,7 +91,11 @@ export function buildScenario(seed = 11, groups: ScenarioGroup[] = defaultGroups
       }
     }
   }
-  const adjacency = buildAdjacency(nodeCount, { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length }, true);
+  const adjacency = buildAdjacency(
+    nodeCount,
+    { source: Int32Array.from(source), target: Int32Array.from(target), weight: null, count: source.length },
+    true,
+  );
   const context: ReviewContext = {
     dataset: 'wind-farm-review',
     slice: sliceKeys[sliceKeys.length - 1],

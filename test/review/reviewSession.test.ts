@@ -22,8 +22,16 @@ describe('review/reviewSession', () => {
     newSession = () => new ReviewSession(scenario.context, candidates, fixedClock());
   });
 
-  const ids = (session: ReviewSession) => session.queue().filter((q) => q.status === 'open').map((q) => q.candidate.id);
-  const sizes = (session: ReviewSession) => session.queue().filter((q) => q.status === 'open').map((q) => q.candidate.members.length);
+  const ids = (session: ReviewSession) =>
+    session
+      .queue()
+      .filter((q) => q.status === 'open')
+      .map((q) => q.candidate.id);
+  const sizes = (session: ReviewSession) =>
+    session
+      .queue()
+      .filter((q) => q.status === 'open')
+      .map((q) => q.candidate.members.length);
   const nodeIdsOf = (nodes: ArrayLike<number>) => Array.from(nodes, (n) => scenario.context.nodeIds[n]);
 
   it('queues candidates largest first and starts at the largest', () => {
@@ -51,7 +59,12 @@ describe('review/reviewSession', () => {
     const session = newSession();
     const [a, b] = ids(session);
     const members = nodeIdsOf(session.current!.members);
-    const decision = session.decide({ kind: 'name-new-class', candidateId: a, className: ' rotor icing ', description: 'ice on blades and sensors' });
+    const decision = session.decide({
+      kind: 'name-new-class',
+      candidateId: a,
+      className: ' rotor icing ',
+      description: 'ice on blades and sensors',
+    });
     assert.equal(decision.kind, 'name-new-class');
     assert.equal(decision.id, 'd-0001');
     assert.equal(decision.madeAt, '2024-10-01T12:00:00.000Z');
@@ -63,8 +76,14 @@ describe('review/reviewSession', () => {
     const node = scenario.context.nodeIds.indexOf(members[0]);
     assert.equal(session.pendingLabelOf(node), 'rotor icing');
     // A second class of the same name is refused and leaves the state as it was.
-    assert.throws(() => session.decide({ kind: 'name-new-class', candidateId: b, className: 'rotor icing', description: '' }), /exists already/);
-    assert.throws(() => session.decide({ kind: 'name-new-class', candidateId: b, className: 'blade-crack', description: '' }), /exists already/);
+    assert.throws(
+      () => session.decide({ kind: 'name-new-class', candidateId: b, className: 'rotor icing', description: '' }),
+      /exists already/,
+    );
+    assert.throws(
+      () => session.decide({ kind: 'name-new-class', candidateId: b, className: 'blade-crack', description: '' }),
+      /exists already/,
+    );
     assert.equal(session.pendingDecisions().length, 1);
     assert.equal(session.candidate(b)?.status, 'open');
   });
@@ -88,14 +107,17 @@ describe('review/reviewSession', () => {
     const before = session.current!.members;
     const moved = nodeIdsOf(before.slice(0, 3));
     assert.throws(() => session.decide({ kind: 'move-members', members: moved, className: 'frost' }), /give a description/);
-    assert.throws(() => session.decide({ kind: 'move-members', members: moved, className: 'grid-fault', description: 'x' }), /exists already/);
+    assert.throws(
+      () => session.decide({ kind: 'move-members', members: moved, className: 'grid-fault', description: 'x' }),
+      /exists already/,
+    );
     assert.throws(() => session.decide({ kind: 'move-members', members: ['nope'], className: 'grid-fault' }), /no node "nope"/);
     session.decide({ kind: 'move-members', members: moved, className: 'frost', description: 'frost on sensors' });
     assert.equal(session.candidate(a)?.candidate.members.length, before.length - 3);
     assert.equal(session.current?.id, a, 'the candidate stays in view');
     assert.ok(session.classes().some((c) => c.name === 'frost' && c.status === 'pending'));
     // Moving every remaining member closes the candidate.
-    session.decide({ kind: 'move-members', members: nodeIdsOf(session.current!.members), className: 'frost' });
+    session.decide({ kind: 'move-members', members: nodeIdsOf(session.current.members), className: 'frost' });
     assert.equal(session.candidate(a)?.status, 'emptied');
     assert.notEqual(session.current?.id, a);
   });
@@ -108,11 +130,14 @@ describe('review/reviewSession', () => {
     assert.ok(decision.kind === 'merge-candidates');
     assert.equal(decision.resultId, `${b}+${c}`);
     assert.equal(session.current?.id, decision.resultId);
-    assert.deepEqual(new Set(nodeIdsOf(session.current!.members)), union);
+    assert.deepEqual(new Set(nodeIdsOf(session.current.members)), union);
     assert.equal(session.candidate(b)?.status, 'merged');
     assert.deepEqual(ids(session), [decision.resultId, a], 'the merged candidate (20) queues before the 18');
     assert.equal(session.current?.cohesion, null);
-    assert.equal(session.current?.sliceCounts.reduce((s, x) => s + x.count, 0), union.size);
+    assert.equal(
+      session.current?.sliceCounts.reduce((s, x) => s + x.count, 0),
+      union.size,
+    );
     assert.throws(() => session.decide({ kind: 'merge-candidates', candidateIds: [a, b] }), /already decided/);
   });
 
@@ -134,7 +159,13 @@ describe('review/reviewSession', () => {
     const order = [...truth.keys()];
     const found = new Map<string, number>();
     decision.parts.forEach((part, k) => part.forEach((id) => found.set(id, k)));
-    assert.equal(adjustedRandIndex(order.map((id) => truth.get(id)!), order.map((id) => found.get(id)!)), 1);
+    assert.equal(
+      adjustedRandIndex(
+        order.map((id) => truth.get(id)!),
+        order.map((id) => found.get(id)!),
+      ),
+      1,
+    );
     // Seeded: the same split twice gives the same parts.
     const again = newSession();
     again.decide({ kind: 'merge-candidates', candidateIds: [a, b] });
@@ -159,18 +190,29 @@ describe('review/reviewSession', () => {
     const session = newSession();
     session.decide({ kind: 'merge-classes', from: 'grid-fault', into: 'gearbox-wear' });
     assert.equal(session.classes().find((c) => c.name === 'grid-fault')?.status, 'merged');
-    assert.throws(() => session.decide({ kind: 'merge-into-class', candidateId: session.current!.id, className: 'grid-fault' }), /merged into another/);
+    assert.throws(
+      () => session.decide({ kind: 'merge-into-class', candidateId: session.current!.id, className: 'grid-fault' }),
+      /merged into another/,
+    );
     session.decide({ kind: 'keep-label', node: scenario.context.nodeIds[0] });
     assert.throws(() => session.decide({ kind: 'keep-label', node: 'missing' }), /no node/);
     assert.deepEqual(sizes(session), [18, 12, 8]);
-    assert.deepEqual(session.pendingDecisions().map((d) => d.kind), ['merge-classes', 'keep-label']);
+    assert.deepEqual(
+      session.pendingDecisions().map((d) => d.kind),
+      ['merge-classes', 'keep-label'],
+    );
   });
 
   it('undo and redo walk back and forth through a sequence of every kind', () => {
     const session = newSession();
     const [a, b, c] = ids(session);
     const states: string[] = [];
-    const state = () => JSON.stringify({ queue: session.queue().map((q) => [q.candidate.id, q.status, q.skips, q.candidate.members.length]), current: session.current?.id, classes: session.classes() });
+    const state = () =>
+      JSON.stringify({
+        queue: session.queue().map((q) => [q.candidate.id, q.status, q.skips, q.candidate.members.length]),
+        current: session.current?.id,
+        classes: session.classes(),
+      });
     states.push(state());
     session.decide({ kind: 'skip', candidateId: a });
     states.push(state());
@@ -179,7 +221,12 @@ describe('review/reviewSession', () => {
     const merged = session.current!.id;
     session.decide({ kind: 'split-candidate', candidateId: merged });
     states.push(state());
-    session.decide({ kind: 'move-members', members: nodeIdsOf(session.current!.members.slice(0, 2)), className: 'wildlife', description: 'animals' });
+    session.decide({
+      kind: 'move-members',
+      members: nodeIdsOf(session.current!.members.slice(0, 2)),
+      className: 'wildlife',
+      description: 'animals',
+    });
     states.push(state());
     session.decide({ kind: 'name-new-class', candidateId: session.current!.id, className: 'storms', description: 'lightning damage' });
     states.push(state());
@@ -204,7 +251,10 @@ describe('review/reviewSession', () => {
     assert.equal(session.canRedo, true);
     session.decide({ kind: 'skip', candidateId: session.current!.id });
     assert.equal(session.canRedo, false);
-    assert.deepEqual(session.pendingDecisions().map((d) => d.id), ['d-0001', 'd-0002', 'd-0003', 'd-0004', 'd-0005', 'd-0006']);
+    assert.deepEqual(
+      session.pendingDecisions().map((d) => d.id),
+      ['d-0001', 'd-0002', 'd-0003', 'd-0004', 'd-0005', 'd-0006'],
+    );
   });
 
   it('round-trips through JSON: same queue, decisions, current candidate and redo stack', () => {
@@ -216,7 +266,7 @@ describe('review/reviewSession', () => {
     session.decide({ kind: 'dismiss', candidateId: b });
     session.undo();
     session.select(ids(session)[0]);
-    const json = JSON.parse(JSON.stringify(session.toJSON()));
+    const json = JSON.parse(JSON.stringify(session.toJSON())) as { format: string; version: number };
     assert.equal(json.format, 'graph-curator-review-session');
     assert.equal(json.version, 1);
     const restored = ReviewSession.fromJSON(json, scenario.context, scenarioCandidates(scenario));
@@ -236,7 +286,10 @@ describe('review/reviewSession', () => {
     assert.throws(() => load({ ...json, version: 2 }), /has version 2/);
     assert.throws(() => load({ ...json, format: 'x' }), /has format "x"/);
     assert.throws(() => load({ ...json, decisions: [{ ...json.decisions[0], kind: 'explode' }] }), /unknown kind "explode"/);
-    assert.throws(() => load({ ...json, decisions: [{ ...json.decisions[0], candidateId: 'gone' }] }), /decision d-0001 no longer fits run run-test-1: no candidate "gone"/);
+    assert.throws(
+      () => load({ ...json, decisions: [{ ...json.decisions[0], candidateId: 'gone' }] }),
+      /decision d-0001 no longer fits run run-test-1: no candidate "gone"/,
+    );
     assert.throws(() => load(null), /not a JSON object/);
   });
 
@@ -264,7 +317,10 @@ describe('review/reviewSession', () => {
     const group = scenario.groups[3];
     const summary = summariseMembers(scenario.context, 'x', group);
     assert.equal(summary.members.length, group.length);
-    assert.deepEqual(summary.sliceCounts.map((s) => s.slice), scenario.context.sliceKeys);
+    assert.deepEqual(
+      summary.sliceCounts.map((s) => s.slice),
+      scenario.context.sliceKeys,
+    );
     assert.equal(summary.sliceCounts[0].count + summary.sliceCounts[1].count, 0, 'this group starts in the third slice');
     assert.equal(summary.nearestMembers.length, 5);
     assert.ok(summary.nearestMembers.every((m, k) => k === 0 || m.distance >= summary.nearestMembers[k - 1].distance));

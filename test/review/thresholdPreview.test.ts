@@ -31,7 +31,12 @@ function karateInput(): ThresholdPreviewInput {
   const trainClasses = Int32Array.from(trainNodes, (n) => n % classCount);
   for (const n of trainNodes) probabilities[n * classCount + (n % classCount)] = 0.6 + 0.4 * random.next();
   return {
-    novelty: { kind: 'doc', probabilities, classCount, thresholdFit: { probabilities, rows: trainNodes, classes: trainClasses, scale: 'std' } },
+    novelty: {
+      kind: 'doc',
+      probabilities,
+      classCount,
+      thresholdFit: { probabilities, rows: trainNodes, classes: trainClasses, scale: 'std' },
+    },
     noveltyMethod: 'doc',
     adjacency,
     smoothingRounds: 2,
@@ -55,7 +60,8 @@ describe('review/thresholdPreview', () => {
     const input = karateInput();
     const preview = createThresholdPreviewer(input);
     const settings: ThresholdSetting[] = [];
-    for (const alpha of [0.5, 1, 2, 3, 6]) for (const lambda of [0, 0.3, 0.5, 0.9]) settings.push({ mode: 'alpha', alpha, quantile: 0.1, lambda });
+    for (const alpha of [0.5, 1, 2, 3, 6])
+      for (const lambda of [0, 0.3, 0.5, 0.9]) settings.push({ mode: 'alpha', alpha, quantile: 0.1, lambda });
     // Back and forth, so that a stale cache would show.
     const order = [...settings, ...settings.slice().reverse(), settings[3], settings[17], settings[3]];
     const counts = new Set<number>();
@@ -72,7 +78,7 @@ describe('review/thresholdPreview', () => {
       assert.equal(result.candidatesKept, kept);
       counts.add(expected);
     }
-    assert.ok(counts.size >= 3, `the settings tried should give different counts, got ${[...counts]}`);
+    assert.ok(counts.size >= 3, `the settings tried should give different counts, got ${[...counts].join(', ')}`);
   });
 
   it('rejects no more nodes as α grows (thresholds max(0.5, 1 − ασ) only fall) without smoothing', () => {
@@ -92,7 +98,10 @@ describe('review/thresholdPreview', () => {
       const setting: ThresholdSetting = { mode: 'quantile', alpha: 3, quantile, lambda: 0.5 };
       const result = preview(setting);
       assert.equal(result.rejected, Math.round(quantile * 14));
-      assert.equal(result.rejected, recompute(input, setting).reduce((s, f) => s + f, 0));
+      assert.equal(
+        result.rejected,
+        recompute(input, setting).reduce((s, f) => s + f, 0),
+      );
     }
   });
 
@@ -108,7 +117,10 @@ describe('review/thresholdPreview', () => {
 
   it('refuses scores that do not match the graph, and reads a run’s setting', () => {
     const input = karateInput();
-    assert.throws(() => createThresholdPreviewer({ ...input, novelty: { kind: 'fixed', noveltyRaw: new Float32Array(5) } }), /5 scored rows for a graph of 34 nodes/);
+    assert.throws(
+      () => createThresholdPreviewer({ ...input, novelty: { kind: 'fixed', noveltyRaw: new Float32Array(5) } }),
+      /5 scored rows for a graph of 34 nodes/,
+    );
     const base = { alpha: 2, smoothingWeight: 0.4, rejectQuantile: null, noveltyMethod: 'doc' } as RunSettings;
     assert.deepEqual(thresholdSettingOf(base), { mode: 'alpha', alpha: 2, quantile: 0.1, lambda: 0.4 });
     assert.equal(thresholdSettingOf({ ...base, rejectQuantile: 0.2 }).mode, 'quantile');

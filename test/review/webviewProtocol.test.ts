@@ -89,10 +89,16 @@ describe('protocol/webview guards and the review controller', () => {
 
   it('rejects malformed messages of every type', () => {
     for (const message of bad) assert.equal(isWebviewToHostMessage(message), false, JSON.stringify(message));
-    const refusedTypes = new Set(bad.filter((m): m is { type: string } => typeof m === 'object' && m !== null && 'type' in m).map((m) => m.type));
-    for (const type of webviewToHostTypes.filter((t) => t !== 'ready')) assert.ok(refusedTypes.has(type), `a malformed "${type}" is tested`);
+    const refusedTypes = new Set(
+      bad.filter((m): m is { type: string } => typeof m === 'object' && m !== null && 'type' in m).map((m) => m.type),
+    );
+    for (const type of webviewToHostTypes.filter((t) => t !== 'ready'))
+      assert.ok(refusedTypes.has(type), `a malformed "${type}" is tested`);
     assert.equal(describeRefusedMessage({ type: 'explode' }), 'refused a webview message of unknown type "explode"');
-    assert.equal(describeRefusedMessage({ type: 'decide', requestId: 1, decision: { kind: 'dismiss' } }), 'refused a malformed "dismiss" decision from the webview');
+    assert.equal(
+      describeRefusedMessage({ type: 'decide', requestId: 1, decision: { kind: 'dismiss' } }),
+      'refused a malformed "dismiss" decision from the webview',
+    );
   });
 
   it('the controller answers ready with a snapshot, refuses bad messages, and reports failed decisions with the request id', async () => {
@@ -103,8 +109,8 @@ describe('protocol/webview guards and the review controller', () => {
     const controller = new ReviewController(session, {
       post: (m) => posted.push(m),
       persist: (json) => persisted.push(json),
-      exportDecisions: async (file) => `wrote ${file.decisions.length}`,
-      applyDecisions: async () => 'applied',
+      exportDecisions: (file) => Promise.resolve(`wrote ${file.decisions.length}`),
+      applyDecisions: () => Promise.resolve('applied'),
       openNode: () => undefined,
     });
     await controller.receive({ type: 'ready' });
@@ -115,11 +121,15 @@ describe('protocol/webview guards and the review controller', () => {
     assert.equal(snapshot?.current?.graph.source.length, snapshot?.current?.graph.totalEdges);
     await controller.receive({ type: 'decide', requestId: 4, decision: { kind: 'burn' } });
     assert.deepEqual(posted.at(-1), { type: 'error', message: 'refused a malformed "burn" decision from the webview' });
-    await controller.receive({ type: 'decide', requestId: 5, decision: { kind: 'merge-into-class', candidateId: snapshot!.queue[0].id, className: 'nope' } });
+    await controller.receive({
+      type: 'decide',
+      requestId: 5,
+      decision: { kind: 'merge-into-class', candidateId: snapshot.queue[0].id, className: 'nope' },
+    });
     assert.deepEqual(posted.at(-1), { type: 'error', requestId: 5, message: 'no class "nope": name it as a new class first' });
     await controller.receive({ type: 'previewThreshold', requestId: 6, setting });
     assert.equal(posted.at(-1)?.type, 'error');
-    await controller.receive({ type: 'decide', requestId: 7, decision: { kind: 'dismiss', candidateId: snapshot!.queue[0].id } });
+    await controller.receive({ type: 'decide', requestId: 7, decision: { kind: 'dismiss', candidateId: snapshot.queue[0].id } });
     assert.equal(posted.at(-1)?.type, 'snapshot');
     assert.equal(persisted.length, 1);
     await controller.receive({ type: 'exportDecisions', requestId: 8 });
@@ -131,8 +141,17 @@ describe('protocol/webview guards and the review controller', () => {
     assert.match(nonce, /^[A-Za-z0-9]{32}$/);
     assert.notEqual(newNonce(), nonce);
     const policy = contentSecurityPolicy('https://x.vscode-cdn.net', nonce);
-    assert.equal(policy, `default-src 'none'; img-src https://x.vscode-cdn.net data:; style-src https://x.vscode-cdn.net; font-src https://x.vscode-cdn.net; script-src 'nonce-${nonce}'; worker-src blob:`);
-    const html = reviewPanelHtml({ scriptUri: 'https://x/dist/webview.js', styleUri: 'https://x/media/review.css', cspSource: 'https://x.vscode-cdn.net', nonce, title: 'a "b" <c>' });
+    assert.equal(
+      policy,
+      `default-src 'none'; img-src https://x.vscode-cdn.net data:; style-src https://x.vscode-cdn.net; font-src https://x.vscode-cdn.net; script-src 'nonce-${nonce}'; worker-src blob:`,
+    );
+    const html = reviewPanelHtml({
+      scriptUri: 'https://x/dist/webview.js',
+      styleUri: 'https://x/media/review.css',
+      cspSource: 'https://x.vscode-cdn.net',
+      nonce,
+      title: 'a "b" <c>',
+    });
     assert.ok(html.includes(`<script nonce="${nonce}" src="https://x/dist/webview.js"></script>`));
     assert.ok(html.includes('<title>a &quot;b&quot; &lt;c&gt;</title>'));
     assert.ok(!/style="/.test(html), 'no inline styles');

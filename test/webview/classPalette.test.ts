@@ -19,7 +19,10 @@ const sharmaPairs: [number, number, number, number, number, number, number][] = 
 describe('webview/class palette', () => {
   it('computes CIEDE2000 as in the published test data', () => {
     for (const [L1, a1, b1, L2, a2, b2, expected] of sharmaPairs) {
-      assert.ok(Math.abs(deltaE2000([L1, a1, b1], [L2, a2, b2]) - expected) < 1e-4, `${[L1, a1, b1]} vs ${[L2, a2, b2]}`);
+      assert.ok(
+        Math.abs(deltaE2000([L1, a1, b1], [L2, a2, b2]) - expected) < 1e-4,
+        `${[L1, a1, b1].join(',')} vs ${[L2, a2, b2].join(',')}`,
+      );
       assert.ok(Math.abs(deltaE2000([L2, a2, b2], [L1, a1, b1]) - expected) < 1e-4, 'symmetric');
     }
   });
@@ -34,7 +37,10 @@ describe('webview/class palette', () => {
     // A dichromat simulation leaves greys grey: every matrix row of Machado et al. (2009) sums to 1.
     for (const vision of ['protanopia', 'deuteranopia', 'tritanopia'] as Vision[]) {
       const grey = simulate([128, 128, 128], vision);
-      assert.ok(grey.every((c) => Math.abs(c - 128) < 0.6), `${vision}: ${grey}`);
+      assert.ok(
+        grey.every((c) => Math.abs(c - 128) < 0.6),
+        `${vision}: ${grey.join(', ')}`,
+      );
     }
   });
 
@@ -48,7 +54,10 @@ describe('webview/class palette', () => {
       assert.ok(distance >= minimum, `${vision}: ${pair.join(' vs ')} only ΔE00 ${distance.toFixed(2)} apart`);
     }
     // The check can fail: two reds a deuteranope confuses are caught.
-    assert.ok(smallestDifference(['#cc3333', '#669900'], 'deuteranopia').distance < smallestDifference(['#cc3333', '#669900'], 'normal').distance / 2);
+    assert.ok(
+      smallestDifference(['#cc3333', '#669900'], 'deuteranopia').distance <
+        smallestDifference(['#cc3333', '#669900'], 'normal').distance / 2,
+    );
     assert.equal(classColour(12), classPalette[2]);
     assert.ok(classPalette.every((hex) => hexToRgb(hex).length === 3));
   });

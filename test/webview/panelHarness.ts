@@ -22,11 +22,21 @@ const bundleFolder = path.join(projectRoot, 'test-output', 'webview-test');
 const origin = 'https://webview.test';
 
 /** Flags that work on these machines (FIELD-NOTES.md); WebGL still works (software) with --disable-gpu. */
-const chromiumFlags = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'];
+const chromiumFlags = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+  '--disable-quic',
+];
 
 export function requireChromium(): void {
   if (!existsSync(chromiumPath)) {
-    throw new Error(`${chromiumPath} is missing: the webview tests drive Debian's Chromium. Run scripts/e2e/setup.sh (or apt-get install -y chromium) first.`);
+    throw new Error(
+      `${chromiumPath} is missing: the webview tests drive Debian's Chromium. Run scripts/e2e/setup.sh (or apt-get install -y chromium) first.`,
+    );
   }
 }
 
@@ -37,7 +47,15 @@ export async function webviewBundle(): Promise<string> {
   if (bundle) return bundle;
   mkdirSync(bundleFolder, { recursive: true });
   const outfile = path.join(bundleFolder, 'webview.js');
-  await esbuild.build({ entryPoints: [path.join(projectRoot, 'webview', 'main.ts')], outfile, bundle: true, platform: 'browser', target: 'chrome120', format: 'iife', logLevel: 'warning' });
+  await esbuild.build({
+    entryPoints: [path.join(projectRoot, 'webview', 'main.ts')],
+    outfile,
+    bundle: true,
+    platform: 'browser',
+    target: 'chrome120',
+    format: 'iife',
+    logLevel: 'warning',
+  });
   bundle = readFileSync(outfile, 'utf8');
   return bundle;
 }
@@ -82,7 +100,12 @@ export interface Panel {
 export async function openPanel(browser: Browser, options: PanelOptions): Promise<Panel> {
   const script = await webviewBundle();
   const css = readFileSync(path.join(projectRoot, 'media', 'review.css'), 'utf8');
-  const html = reviewPanelHtml({ scriptUri: `${origin}/dist/webview.js`, styleUri: `${origin}/media/review.css`, cspSource: origin, nonce: 'testNonce0123456789abcdef' });
+  const html = reviewPanelHtml({
+    scriptUri: `${origin}/dist/webview.js`,
+    styleUri: `${origin}/media/review.css`,
+    cspSource: origin,
+    nonce: 'testNonce0123456789abcdef',
+  });
   const context = await browser.newContext({ viewport: options.viewport ?? { width: 1400, height: 900 }, deviceScaleFactor: 1 });
   const page = await context.newPage();
   await page.route(`${origin}/**`, (route) => {
@@ -110,11 +133,11 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
         void page.evaluate((m) => window.postMessage(m, '*'), message).catch(() => undefined);
       },
       previewThreshold: options.previewThreshold,
-      exportDecisions: async (file) => {
+      exportDecisions: (file) => {
         exported.push(file);
-        return `wrote ${file.decisions.length} decisions`;
+        return Promise.resolve(`wrote ${file.decisions.length} decisions`);
       },
-      applyDecisions: async (file) => `applied ${file.decisions.length} decisions`,
+      applyDecisions: (file) => Promise.resolve(`applied ${file.decisions.length} decisions`),
       openNode: (nodeId) => opened.push(nodeId),
     },
     options.baseline ?? null,
@@ -166,7 +189,10 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
       for (;;) {
         const hit = posted.slice(from).find((m) => predicate(m as Record<string, unknown>));
         if (hit) return hit as Record<string, unknown>;
-        if (Date.now() > deadline) throw new Error(`the webview did not post ${what}; after #${from} it posted ${JSON.stringify(posted.slice(from))}; page errors: ${JSON.stringify(pageErrors)}`);
+        if (Date.now() > deadline)
+          throw new Error(
+            `the webview did not post ${what}; after #${from} it posted ${JSON.stringify(posted.slice(from))}; page errors: ${JSON.stringify(pageErrors)}`,
+          );
         await new Promise((r) => setTimeout(r, 20));
       }
     },

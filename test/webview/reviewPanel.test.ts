@@ -30,32 +30,50 @@ describe('webview/review panel (Chromium)', function () {
   });
 
   const open = async (overrides: Partial<PanelOptions> = {}) => {
-    panel = await openPanel(browser, { context: scenario.context, candidates: scenarioCandidates(scenario), theme: lightTheme, ...overrides });
+    panel = await openPanel(browser, {
+      context: scenario.context,
+      candidates: scenarioCandidates(scenario),
+      theme: lightTheme,
+      ...overrides,
+    });
     return panel;
   };
-  const openIds = (p: Panel) => p.session.queue().filter((q) => q.status === 'open').map((q) => q.candidate.id);
-  const decisionAfter = async (p: Panel, mark: number) => (await p.nextPosted(mark, (m) => m.type === 'decide', 'a decision')).decision as Record<string, unknown>;
+  const openIds = (p: Panel) =>
+    p.session
+      .queue()
+      .filter((q) => q.status === 'open')
+      .map((q) => q.candidate.id);
+  const decisionAfter = async (p: Panel, mark: number) =>
+    (await p.nextPosted(mark, (m) => m.type === 'decide', 'a decision')).decision as Record<string, unknown>;
   const settled = async (p: Panel, count: number) => {
-    await p.page.locator('#pending-list li[data-decision]').nth(count - 1).waitFor();
+    await p.page
+      .locator('#pending-list li[data-decision]')
+      .nth(count - 1)
+      .waitFor();
   };
 
   it('loads under the panel’s Content-Security-Policy and shows the queue, summary, graph and table', async () => {
     const p = await open();
     assert.deepEqual(p.posted[0], { type: 'ready' });
-    const queue = await p.page.locator('#queue-list .queue-item').evaluateAll((items) => items.map((i) => i.getAttribute('data-candidate')));
+    const queue = await p.page
+      .locator('#queue-list .queue-item')
+      .evaluateAll((items) => items.map((i) => i.getAttribute('data-candidate')));
     assert.deepEqual(queue, openIds(p));
     assert.equal(await p.page.locator('#candidate-title').textContent(), openIds(p)[0]);
     assert.equal(await p.page.locator('#candidate-size').textContent(), '18 members');
     assert.equal(await p.page.locator('#emergence-chart rect').count(), 4, 'one bar per slice');
     assert.equal(await p.page.locator('#nearest-members li').count(), 5);
-    assert.equal(await p.page.locator('#graph-stage canvas').count() > 0, true, 'sigma drew into the graph area');
+    assert.equal((await p.page.locator('#graph-stage canvas').count()) > 0, true, 'sigma drew into the graph area');
     assert.equal(await p.page.locator('#graph-unavailable').count(), 0);
     assert.equal(await p.page.locator('.member-rows .member-row').count(), 18);
     // The worker layout (ForceAtlas2 from a blob: URL) runs under the same policy.
     await p.page.locator('#run-layout').click();
     await p.page.waitForTimeout(500);
     assert.deepEqual(await p.violations(), []);
-    assert.deepEqual(p.pageErrors.filter((e) => !e.includes('GL Driver')), []);
+    assert.deepEqual(
+      p.pageErrors.filter((e) => !e.includes('GL Driver')),
+      [],
+    );
   });
 
   it('records each decision made by clicking, with the fields the host needs', async () => {
@@ -68,7 +86,12 @@ describe('webview/review panel (Chromium)', function () {
     await page.locator('#new-class-name input').fill('rotor icing');
     await page.locator('#new-class-description input').fill('ice on blades and sensors');
     await page.locator('#confirm-name').click();
-    assert.deepEqual(await decisionAfter(p, mark), { kind: 'name-new-class', candidateId: first, className: 'rotor icing', description: 'ice on blades and sensors' });
+    assert.deepEqual(await decisionAfter(p, mark), {
+      kind: 'name-new-class',
+      candidateId: first,
+      className: 'rotor icing',
+      description: 'ice on blades and sensors',
+    });
     await settled(p, 1);
     assert.equal(await page.locator('#candidate-title').textContent(), second, 'the panel moves to the next candidate');
 
@@ -96,7 +119,10 @@ describe('webview/review panel (Chromium)', function () {
     const rows = page.locator('.member-rows .member-row');
     const picked = [await rows.nth(0).getAttribute('data-node'), await rows.nth(1).getAttribute('data-node')];
     await rows.nth(0).locator('input[type=checkbox]').click();
-    await rows.nth(1).locator('input[type=checkbox]').click({ modifiers: ['Shift'] });
+    await rows
+      .nth(1)
+      .locator('input[type=checkbox]')
+      .click({ modifiers: ['Shift'] });
     assert.match((await page.locator('#member-count').textContent()) ?? '', /2 selected/);
     await page.locator('#decide-move').click();
     await page.locator('#confirm-move').click();
@@ -143,11 +169,17 @@ describe('webview/review panel (Chromium)', function () {
 
     let mark = p.posted.length;
     await page.keyboard.press('j');
-    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: second });
+    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), {
+      type: 'selectCandidate',
+      candidateId: second,
+    });
     await page.locator('#candidate-title', { hasText: second }).waitFor();
     mark = p.posted.length;
     await page.keyboard.press('k');
-    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: first });
+    assert.deepEqual(await p.nextPosted(mark, (m) => m.type === 'selectCandidate', 'selectCandidate'), {
+      type: 'selectCandidate',
+      candidateId: first,
+    });
     await page.locator('#candidate-title', { hasText: first }).waitFor();
 
     mark = p.posted.length;
@@ -240,7 +272,9 @@ describe('webview/review panel (Chromium)', function () {
     await page.locator('#member-viewport').evaluate((viewport) => {
       viewport.scrollTop = viewport.scrollHeight;
     });
-    await page.waitForFunction(() => Number(document.querySelector('.member-rows .member-row:last-child')?.getAttribute('aria-rowindex')) === 5000);
+    await page.waitForFunction(
+      () => Number(document.querySelector('.member-rows .member-row:last-child')?.getAttribute('aria-rowindex')) === 5000,
+    );
     assert.ok((await page.locator('.member-rows .member-row').count()) < 80);
     await page.locator('#member-search input').fill('n0070');
     await page.waitForFunction(() => /^10 of 5000/.test(document.querySelector('#member-count')?.textContent ?? ''));
@@ -258,7 +292,11 @@ describe('webview/review panel (Chromium)', function () {
     assert.equal(await page.locator('#graph-stage canvas').count(), 0);
     assert.equal(await page.locator('.member-rows .member-row').count(), 18);
     await page.locator('#member-search input').fill('n0011');
-    await page.waitForFunction(() => /^\d+ of 18 members/.test(document.querySelector('#member-count')?.textContent ?? '') && !/^18 of/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    await page.waitForFunction(
+      () =>
+        /^\d+ of 18 members/.test(document.querySelector('#member-count')?.textContent ?? '') &&
+        !/^18 of/.test(document.querySelector('#member-count')?.textContent ?? ''),
+    );
     const mark = p.posted.length;
     await page.locator('#decide-dismiss').click();
     assert.equal((await decisionAfter(p, mark)).kind, 'dismiss');
@@ -290,11 +328,14 @@ describe('webview/review panel (Chromium)', function () {
   it('returns to the candidate, search and rejection setting it had before being hidden', async () => {
     const second = scenarioCandidates(scenario)[1].id;
     const p = await open({ savedState: { candidateId: second, search: 'feathers', sortColumn: 'id', sortDescending: false } });
-    assert.deepEqual(await p.nextPosted(0, (m) => m.type === 'selectCandidate', 'selectCandidate'), { type: 'selectCandidate', candidateId: second });
+    assert.deepEqual(await p.nextPosted(0, (m) => m.type === 'selectCandidate', 'selectCandidate'), {
+      type: 'selectCandidate',
+      candidateId: second,
+    });
     await p.page.locator('#candidate-title', { hasText: second }).waitFor();
     assert.equal(await p.page.locator('#member-search').evaluate((f) => (f as HTMLElement & { value: string }).value), 'feathers');
     assert.equal(await p.page.locator('.sort-button[data-column=id]').getAttribute('aria-sort'), 'ascending');
-    const state = (await p.page.evaluate('window.__state()')) as { candidateId?: string };
+    const state = await p.page.evaluate<{ candidateId?: string }>('window.__state()');
     assert.equal(state.candidateId, second);
   });
 
@@ -303,7 +344,17 @@ describe('webview/review panel (Chromium)', function () {
     ['dark', darkTheme],
   ] as const) {
     it(`renders in the ${name} theme from the --vscode-* variables (screenshot saved)`, async () => {
-      const p = await open({ theme, themeKind: name, baseline: { setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 }, rejected: 38, scored: 148, candidatesKept: 3, ungroupedRejected: 0 } });
+      const p = await open({
+        theme,
+        themeKind: name,
+        baseline: {
+          setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
+          rejected: 38,
+          scored: 148,
+          candidatesKept: 3,
+          ungroupedRejected: 0,
+        },
+      });
       const page = p.page;
       const background = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
       const hex = theme['--vscode-editor-background'];

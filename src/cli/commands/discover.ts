@@ -20,8 +20,16 @@ export const spec: CommandSpec = {
   positionals: [{ name: 'folder' }],
   flags: [
     { name: 'scores', value: 'FILE', description: 'Novelty scores computed elsewhere: CSV with id,score[,predicted][,rejected].' },
-    { name: 'embeddings', value: 'FILE', description: 'With --scores: .npy of embeddings, one row per CSV row (default: the CSV name with .npy).' },
-    { name: 'threshold', value: 'X', description: 'With --scores and no rejected column: reject nodes whose score is above X (default 0).' },
+    {
+      name: 'embeddings',
+      value: 'FILE',
+      description: 'With --scores: .npy of embeddings, one row per CSV row (default: the CSV name with .npy).',
+    },
+    {
+      name: 'threshold',
+      value: 'X',
+      description: 'With --scores and no rejected column: reject nodes whose score is above X (default 0).',
+    },
     { name: 'out', value: 'FILE', description: 'Write the candidates JSON here (default: candidates.json in the new run folder).' },
     { name: 'json', description: 'Print the candidates JSON instead of a summary.' },
     ...RUN_SETTING_FLAGS,
@@ -47,11 +55,19 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       const thresholdText = parsed.value('threshold') ?? '0';
       const threshold = Number(thresholdText);
       if (!Number.isFinite(threshold)) throw new UsageError(`--threshold must be a number, got "${thresholdText}"`);
-      const space = await readExternalScores(dataset, scoresPath, embeddingsPath, { threshold, slice: parsed.value('slice') === undefined ? null : slice });
+      const space = await readExternalScores(dataset, scoresPath, embeddingsPath, {
+        threshold,
+        slice: parsed.value('slice') === undefined ? null : slice,
+      });
       const sliceKey = dataset.slices[slice].key;
       const previous = await previousCandidates(dataset, sliceKey, (g) => g);
       const result = discoverInSpace(dataset, space, settings.seed, previous);
-      candidates = candidatesFileOf(dataset, result, (l) => l, { runId: null, slice: sliceKey, scoresSource: path.basename(scoresPath), rejectedCount: space.rejected.length });
+      candidates = candidatesFileOf(dataset, result, (l) => l, {
+        runId: null,
+        slice: sliceKey,
+        scoresSource: path.basename(scoresPath),
+        rejectedCount: space.rejected.length,
+      });
     } else {
       const progress = parsed.has('json') ? undefined : stageProgress(io);
       const { scores, fit } = await scoreSlice(dataset, settings, slice, { progress, cancel: io.cancel });

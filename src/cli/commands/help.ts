@@ -6,7 +6,7 @@ import { COMMANDS } from './index';
 
 export const spec: CommandSpec = {
   name: 'help',
-  summary: 'List the commands, or show one command\'s options.',
+  summary: "List the commands, or show one command's options.",
   positionals: [{ name: 'command', optional: true }],
   flags: [],
 };

@@ -25,7 +25,12 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     const parsed = parseArgs(args, spec);
     folder = parsed.positionals[0];
     const target = path.join(folder, MANIFEST_FILE);
-    if (await fs.stat(target).then(() => true, () => false)) {
+    if (
+      await fs.stat(target).then(
+        () => true,
+        () => false,
+      )
+    ) {
       io.stderr(`${target} already exists; not overwriting it (edit it, or delete it and run init again)\n`);
       return EXIT.failure;
     }

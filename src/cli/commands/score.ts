@@ -17,7 +17,10 @@ export const spec: CommandSpec = {
   name: 'score',
   summary: 'Train on the history window of a slice, score every node of the slice, and save a run.',
   positionals: [{ name: 'folder' }],
-  flags: [...RUN_SETTING_FLAGS, { name: 'out', value: 'FILE', description: 'Also write the per-node results (CSV) to FILE.' }, { name: 'quiet', description: 'Print only the run folder.' },
+  flags: [
+    ...RUN_SETTING_FLAGS,
+    { name: 'out', value: 'FILE', description: 'Also write the per-node results (CSV) to FILE.' },
+    { name: 'quiet', description: 'Print only the run folder.' },
     { name: 'no-discover', description: 'Skip grouping the rejected nodes into candidate classes.' },
   ],
   details:

@@ -61,7 +61,8 @@ export function parseClassesJson(text: string, file: string): { classes: ClassRe
       continue;
     }
     const fields = new Map(item.entries.map((e) => [e.key, e]));
-    for (const e of item.entries) if (!CLASS_KEYS.includes(e.key)) problem(e.keyAt, `unknown key "${e.key}"; expected one of ${CLASS_KEYS.join(', ')}`);
+    for (const e of item.entries)
+      if (!CLASS_KEYS.includes(e.key)) problem(e.keyAt, `unknown key "${e.key}"; expected one of ${CLASS_KEYS.join(', ')}`);
     const stringField = (key: string, required: boolean): string | undefined => {
       const entry = fields.get(key);
       if (!entry) {
@@ -89,11 +90,15 @@ export function parseClassesJson(text: string, file: string): { classes: ClassRe
       problem(nameAt, `duplicate class "${name}"`);
       continue;
     }
-    if (!STATUSES.includes(status)) problem(fields.get('status')!.value, `"status" must be one of ${STATUSES.map((s) => `"${s}"`).join(', ')}; found "${status}"`);
-    if (status === 'merged' && mergedInto === undefined) problem(fields.get('status')!.value, `class "${name}" is merged but has no "mergedInto"`);
+    if (!STATUSES.includes(status))
+      problem(fields.get('status')!.value, `"status" must be one of ${STATUSES.map((s) => `"${s}"`).join(', ')}; found "${status}"`);
+    if (status === 'merged' && mergedInto === undefined)
+      problem(fields.get('status')!.value, `class "${name}" is merged but has no "mergedInto"`);
     if (mergedInto !== undefined) mergeTargets.push({ at: fields.get('mergedInto')!.value, target: mergedInto });
     names.add(name);
-    classes.push(mergedInto === undefined ? { name, description, introducedIn, status } : { name, description, introducedIn, status, mergedInto });
+    classes.push(
+      mergedInto === undefined ? { name, description, introducedIn, status } : { name, description, introducedIn, status, mergedInto },
+    );
   }
   for (const { at, target } of mergeTargets) if (!names.has(target)) problem(at, `"mergedInto" names an unknown class "${target}"`);
   return { classes, problems };

@@ -226,7 +226,11 @@ export class CsvTokenizer {
             this.newLine(i, c);
             state = State.FieldStart;
           } else {
-            this.addProblem(this.line, this.columnBase + i, 'unexpected character after a closing quote: a quoted field must end at a comma or line end');
+            this.addProblem(
+              this.line,
+              this.columnBase + i,
+              'unexpected character after a closing quote: a quoted field must end at a comma or line end',
+            );
             this.recordBad = true;
             state = State.Unquoted;
             segmentStart = i;
@@ -271,7 +275,12 @@ export class CsvTokenizer {
     if (!this.recordBad) {
       if (this.expectedFields < 0) {
         this.expectedFields = row.fields.length;
-        this.header = { fields: row.fields.slice(), line: row.line, fieldLines: row.fieldLines.slice(), fieldColumns: row.fieldColumns.slice() };
+        this.header = {
+          fields: row.fields.slice(),
+          line: row.line,
+          fieldLines: row.fieldLines.slice(),
+          fieldColumns: row.fieldColumns.slice(),
+        };
         this.onHeader?.(this.header);
       } else if (row.fields.length !== this.expectedFields) {
         const count = row.fields.length;
@@ -279,7 +288,11 @@ export class CsvTokenizer {
           const k = this.expectedFields;
           this.addProblem(row.fieldLines[k], row.fieldColumns[k], `ragged row: ${count} fields, the header has ${this.expectedFields}`);
         } else {
-          this.addProblem(this.line, endColumn, `ragged row: ${count} field${count === 1 ? '' : 's'}, the header has ${this.expectedFields}`);
+          this.addProblem(
+            this.line,
+            endColumn,
+            `ragged row: ${count} field${count === 1 ? '' : 's'}, the header has ${this.expectedFields}`,
+          );
         }
         this.onRaggedRow?.(row);
       } else {
@@ -348,7 +361,12 @@ export function firstInvalidUtf8(bytes: Uint8Array): number {
 }
 
 /** Tokenizes bytes held in memory (tests, fuzzing, small files). */
-export function parseCsvBytes(bytes: Uint8Array, file: string, onRow: (row: CsvRow) => void, options: Pick<CsvReadOptions, 'onHeader' | 'onRaggedRow' | 'maxProblems'> = {}): Omit<CsvReadResult, 'sha256'> {
+export function parseCsvBytes(
+  bytes: Uint8Array,
+  file: string,
+  onRow: (row: CsvRow) => void,
+  options: Pick<CsvReadOptions, 'onHeader' | 'onRaggedRow' | 'maxProblems'> = {},
+): Omit<CsvReadResult, 'sha256'> {
   const tokenizer = new CsvTokenizer(file, onRow, options.maxProblems, options.onHeader, options.onRaggedRow);
   tokenizer.push(bytes);
   tokenizer.end();
@@ -356,7 +374,12 @@ export function parseCsvBytes(bytes: Uint8Array, file: string, onRow: (row: CsvR
 }
 
 /** Streams a CSV file from disk; never holds its whole text. */
-export async function readCsvFile(filePath: string, file: string, onRow: (row: CsvRow) => void, options: CsvReadOptions = {}): Promise<CsvReadResult> {
+export async function readCsvFile(
+  filePath: string,
+  file: string,
+  onRow: (row: CsvRow) => void,
+  options: CsvReadOptions = {},
+): Promise<CsvReadResult> {
   const tokenizer = new CsvTokenizer(file, onRow, options.maxProblems, options.onHeader, options.onRaggedRow);
   const hash = createHash('sha256');
   const totalBytes = options.onBytes ? (await fs.stat(filePath)).size : 0;
@@ -382,11 +405,21 @@ function resultOf(t: CsvTokenizer): Omit<CsvReadResult, 'sha256'> {
 }
 
 /** Index of each required column in the header; a problem at the header line for each missing one. */
-export function requireColumns(header: CsvRow, file: string, required: { name: string; role: string }[], problems: LocatedProblem[]): number[] {
+export function requireColumns(
+  header: CsvRow,
+  file: string,
+  required: { name: string; role: string }[],
+  problems: LocatedProblem[],
+): number[] {
   return required.map(({ name, role }) => {
     const index = header.fields.indexOf(name);
     if (index < 0) {
-      problems.push({ file, line: header.line, column: 1, message: `missing column "${name}" (${role}); the header has ${header.fields.map((f) => `"${f}"`).join(', ')}` });
+      problems.push({
+        file,
+        line: header.line,
+        column: 1,
+        message: `missing column "${name}" (${role}); the header has ${header.fields.map((f) => `"${f}"`).join(', ')}`,
+      });
     }
     return index;
   });
@@ -396,7 +429,13 @@ export function requireColumns(header: CsvRow, file: string, required: { name: s
 export function checkDuplicateHeaderNames(header: CsvRow, file: string, problems: LocatedProblem[]): void {
   const seen = new Set<string>();
   header.fields.forEach((name, k) => {
-    if (seen.has(name)) problems.push({ file, line: header.fieldLines[k], column: header.fieldColumns[k], message: `duplicate column name "${name}" in the header` });
+    if (seen.has(name))
+      problems.push({
+        file,
+        line: header.fieldLines[k],
+        column: header.fieldColumns[k],
+        message: `duplicate column name "${name}" in the header`,
+      });
     seen.add(name);
   });
 }

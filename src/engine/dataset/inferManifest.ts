@@ -53,7 +53,8 @@ export async function inferManifest(folderArgument: string): Promise<InferredMan
   const nodesFile = 'nodes.csv';
   const edgesFile = 'edges.csv';
   for (const file of [nodesFile, edgesFile]) {
-    if (!(await isFile(path.join(folder, file)))) problems.push({ file, line: 0, column: 0, message: `file not found in ${folder}: init needs ${nodesFile} and ${edgesFile}` });
+    if (!(await isFile(path.join(folder, file))))
+      problems.push({ file, line: 0, column: 0, message: `file not found in ${folder}: init needs ${nodesFile} and ${edgesFile}` });
   }
   if (problems.length > 0) throw new DatasetError(problems);
 
@@ -83,7 +84,13 @@ export async function inferManifest(folderArgument: string): Promise<InferredMan
         stats = header.fields.map((name) => ({ name, numeric: true, nonEmpty: 0 }));
         idName = header.fields.includes('id') ? 'id' : header.fields[0];
         const timeName = ['time', 'date', 'timestamp', 'step', 'year'].find((n) => header.fields.includes(n));
-        if (timeName === undefined) problems.push({ file: nodesFile, line: header.line, column: 1, message: 'no time column: name one "time" (an ISO-8601 date or an integer step)' });
+        if (timeName === undefined)
+          problems.push({
+            file: nodesFile,
+            line: header.line,
+            column: 1,
+            message: 'no time column: name one "time" (an ISO-8601 date or an integer step)',
+          });
         else timeIndex = header.fields.indexOf(timeName);
       },
     },
@@ -104,7 +111,10 @@ export async function inferManifest(folderArgument: string): Promise<InferredMan
   problems.push(...edges.problems);
   if (problems.length > 0 || !edges.header) throw new DatasetError(problems);
   const edgeFields = edges.header.fields;
-  if (edgeFields.length < 2) throw new DatasetError([{ file: edgesFile, line: 1, column: 1, message: 'the edges file needs at least two columns (source, target)' }]);
+  if (edgeFields.length < 2)
+    throw new DatasetError([
+      { file: edgesFile, line: 1, column: 1, message: 'the edges file needs at least two columns (source, target)' },
+    ]);
   const sourceName = edgeFields.includes('source') ? 'source' : edgeFields[0];
   const targetName = edgeFields.includes('target') ? 'target' : edgeFields[sourceName === edgeFields[1] ? 0 : 1];
 
@@ -114,9 +124,18 @@ export async function inferManifest(folderArgument: string): Promise<InferredMan
   else if (numericColumns.length > 0) source = 'columns';
   else if (textColumns.length > 0) source = 'tfidf';
   else {
-    throw new DatasetError([{ file: nodesFile, line: 1, column: 1, message: 'no features found: add features.npy, numeric node columns, or text columns for TF-IDF' }]);
+    throw new DatasetError([
+      {
+        file: nodesFile,
+        line: 1,
+        column: 1,
+        message: 'no features found: add features.npy, numeric node columns, or text columns for TF-IDF',
+      },
+    ]);
   }
-  notes.push(`features: ${source === 'npy' ? 'features.npy' : source === 'columns' ? `numeric columns ${numericColumns.join(', ')}` : `TF-IDF of ${textColumns.join(', ')}`}`);
+  notes.push(
+    `features: ${source === 'npy' ? 'features.npy' : source === 'columns' ? `numeric columns ${numericColumns.join(', ')}` : `TF-IDF of ${textColumns.join(', ')}`}`,
+  );
   if (textColumns.length > 0) notes.push(`text columns: ${textColumns.join(', ')}`);
 
   const raw = {
@@ -139,7 +158,11 @@ export async function inferManifest(folderArgument: string): Promise<InferredMan
 }
 
 /** Granularity by the rule in the file comment; problems for values that are not times. */
-export function chooseGranularity(values: { value: string; line: number; column: number }[], file: string, problems: LocatedProblem[]): { granularity: SliceGranularity; sliceCount: number } {
+export function chooseGranularity(
+  values: { value: string; line: number; column: number }[],
+  file: string,
+  problems: LocatedProblem[],
+): { granularity: SliceGranularity; sliceCount: number } {
   if (values.length > 0 && values.every((v) => /^[+-]?\d+$/.test(v.value.trim()))) {
     return { granularity: 'step', sliceCount: new Set(values.map((v) => Number(v.value))).size };
   }

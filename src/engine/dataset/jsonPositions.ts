@@ -175,7 +175,8 @@ export function plainValue(node: JsonNode): unknown {
     case 'object': {
       const out: Record<string, unknown> = {};
       // defineProperty: a key named "__proto__" stays a plain key.
-      for (const e of node.entries) Object.defineProperty(out, e.key, { value: plainValue(e.value), enumerable: true, writable: true, configurable: true });
+      for (const e of node.entries)
+        Object.defineProperty(out, e.key, { value: plainValue(e.value), enumerable: true, writable: true, configurable: true });
       return out;
     }
     case 'array':

@@ -10,7 +10,13 @@ export async function appendLabelLog(filePath: string, entries: readonly LabelLo
 
 /** One line of the log; keys in a fixed order so lines are comparable. */
 export function formatLabelLogEntry(entry: LabelLogEntry): string {
-  const ordered: LabelLogEntry = { time: entry.time, node: entry.node, oldLabel: entry.oldLabel, newLabel: entry.newLabel, reason: entry.reason };
+  const ordered: LabelLogEntry = {
+    time: entry.time,
+    node: entry.node,
+    oldLabel: entry.oldLabel,
+    newLabel: entry.newLabel,
+    reason: entry.reason,
+  };
   if (entry.decisionId !== undefined) ordered.decisionId = entry.decisionId;
   if (entry.runId !== undefined) ordered.runId = entry.runId;
   if (entry.settingsHash !== undefined) ordered.settingsHash = entry.settingsHash;
@@ -69,6 +75,7 @@ function labelLogEntryProblem(value: unknown): string | null {
   const v = value as Record<string, unknown>;
   for (const key of ['time', 'node', 'reason']) if (typeof v[key] !== 'string') return `"${key}" must be a string`;
   for (const key of ['oldLabel', 'newLabel']) if (v[key] !== null && typeof v[key] !== 'string') return `"${key}" must be a string or null`;
-  for (const key of ['decisionId', 'runId', 'settingsHash']) if (v[key] !== undefined && typeof v[key] !== 'string') return `"${key}" must be a string when present`;
+  for (const key of ['decisionId', 'runId', 'settingsHash'])
+    if (v[key] !== undefined && typeof v[key] !== 'string') return `"${key}" must be a string when present`;
   return null;
 }

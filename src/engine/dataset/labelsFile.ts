@@ -41,7 +41,12 @@ export async function readLabelsCsv(filePath: string, file: string = path.basena
       if (id === '') {
         problems.push({ file, ...idAt, message: 'empty node id' });
       } else if (label.trim() === '') {
-        problems.push({ file, line: row.fieldLines[labelIndex], column: row.fieldColumns[labelIndex], message: `empty label for node "${id}": leave unlabelled nodes out of the file` });
+        problems.push({
+          file,
+          line: row.fieldLines[labelIndex],
+          column: row.fieldColumns[labelIndex],
+          message: `empty label for node "${id}": leave unlabelled nodes out of the file`,
+        });
       } else if (labels.has(id)) {
         problems.push({ file, ...idAt, message: `duplicate id "${id}": a node has at most one label` });
       } else {
@@ -52,10 +57,15 @@ export async function readLabelsCsv(filePath: string, file: string = path.basena
     {
       onHeader: (header) => {
         checkDuplicateHeaderNames(header, file, problems);
-        [idIndex, labelIndex] = requireColumns(header, file, [
-          { name: 'id', role: 'node id' },
-          { name: 'label', role: 'class name' },
-        ], problems);
+        [idIndex, labelIndex] = requireColumns(
+          header,
+          file,
+          [
+            { name: 'id', role: 'node id' },
+            { name: 'label', role: 'class name' },
+          ],
+          problems,
+        );
       },
     },
   );
@@ -84,6 +94,10 @@ export function csvField(value: string): string {
   return /[",\r\n]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-export async function writeLabelsCsv(filePath: string, labels: Iterable<readonly [string, string]>, hooks?: AtomicWriteHooks): Promise<void> {
+export async function writeLabelsCsv(
+  filePath: string,
+  labels: Iterable<readonly [string, string]>,
+  hooks?: AtomicWriteHooks,
+): Promise<void> {
   await writeFileAtomic(filePath, formatLabelsCsv(labels), hooks);
 }

@@ -46,13 +46,18 @@ export async function readDatasetFolder(folderArgument: string, options: LoadOpt
   const problems = new ProblemCollector();
   const stat = await fs.stat(folder).catch(() => null);
   if (!stat || !stat.isDirectory()) {
-    return { dataset: null, manifest: null, problems: [{ file: folderArgument, line: 0, column: 0, message: stat ? 'not a folder' : 'folder not found' }] };
+    return {
+      dataset: null,
+      manifest: null,
+      problems: [{ file: folderArgument, line: 0, column: 0, message: stat ? 'not a folder' : 'folder not found' }],
+    };
   }
   const manifestFile = await readManifest(folder);
   if (!manifestFile.manifest) return { dataset: null, manifest: null, problems: manifestFile.problems };
   const manifest = manifestFile.manifest;
   const contentHashes: Record<string, string> = { [MANIFEST_FILE]: manifestFile.sha256 };
-  const stage = (name: keyof typeof PROGRESS) => (fraction: number) => progress.report('load', PROGRESS[name][0] + (PROGRESS[name][1] - PROGRESS[name][0]) * fraction);
+  const stage = (name: keyof typeof PROGRESS) => (fraction: number) =>
+    progress.report('load', PROGRESS[name][0] + (PROGRESS[name][1] - PROGRESS[name][0]) * fraction);
 
   const nodes = await readNodes(folder, manifest, problems, options.cancel, stage('nodes'));
   if (nodes.sha256) contentHashes[manifest.files.nodes] = nodes.sha256;
@@ -74,7 +79,11 @@ export async function readDatasetFolder(folderArgument: string, options: LoadOpt
   const allProblems = problems.result();
   if (allProblems.length > 0) return { dataset: null, manifest, problems: allProblems };
 
-  const { slices, nodeSlice, edgeSlice } = orderSlices(nodes.sliceKeys, nodes.provisionalSlice.toArray(), edges.provisionalSlice?.toArray());
+  const { slices, nodeSlice, edgeSlice } = orderSlices(
+    nodes.sliceKeys,
+    nodes.provisionalSlice.toArray(),
+    edges.provisionalSlice?.toArray(),
+  );
   const dataset: Dataset = {
     folder,
     manifest,
@@ -194,12 +203,27 @@ async function readNodes(
     checkDuplicateHeaderNames(header, file, duplicates);
     problems.addAll(duplicates);
     const list: LocatedProblem[] = [];
-    [idIndex, timeIndex] = requireColumns(header, file, [
-      { name: manifest.nodeColumns.id, role: 'nodeColumns.id in dataset.json' },
-      { name: manifest.time.column, role: 'time.column in dataset.json' },
-    ], list);
-    textIndices = requireColumns(header, file, manifest.nodeColumns.text.map((name) => ({ name, role: 'nodeColumns.text in dataset.json' })), list);
-    featureIndices = requireColumns(header, file, featureColumns.map((name) => ({ name, role: 'nodeColumns.features in dataset.json' })), list);
+    [idIndex, timeIndex] = requireColumns(
+      header,
+      file,
+      [
+        { name: manifest.nodeColumns.id, role: 'nodeColumns.id in dataset.json' },
+        { name: manifest.time.column, role: 'time.column in dataset.json' },
+      ],
+      list,
+    );
+    textIndices = requireColumns(
+      header,
+      file,
+      manifest.nodeColumns.text.map((name) => ({ name, role: 'nodeColumns.text in dataset.json' })),
+      list,
+    );
+    featureIndices = requireColumns(
+      header,
+      file,
+      featureColumns.map((name) => ({ name, role: 'nodeColumns.features in dataset.json' })),
+      list,
+    );
     problems.addAll(list);
     usable = list.length === 0;
   };
@@ -214,23 +238,40 @@ async function readNodes(
     }
     const existing = indexOfId.get(id);
     if (existing !== undefined) {
-      problems.add({ file, line: row.fieldLines[idIndex], column: row.fieldColumns[idIndex], message: `duplicate node id "${id}" (first on line ${firstLine.get(existing)})` });
+      problems.add({
+        file,
+        line: row.fieldLines[idIndex],
+        column: row.fieldColumns[idIndex],
+        message: `duplicate node id "${id}" (first on line ${firstLine.get(existing)})`,
+      });
       return;
     }
     const slice = sliceKeys.intern(fields[timeIndex]);
-    if (typeof slice === 'string') problems.add({ file, line: row.fieldLines[timeIndex], column: row.fieldColumns[timeIndex], message: `unparseable time: ${slice}` });
+    if (typeof slice === 'string')
+      problems.add({ file, line: row.fieldLines[timeIndex], column: row.fieldColumns[timeIndex], message: `unparseable time: ${slice}` });
     indexOfId.set(id, ids.length);
     ids.push(id);
     firstLine.push(row.line);
     provisionalSlice.push(typeof slice === 'string' ? -1 : slice);
     if (textIndices.length === 0) text.push('');
     else if (textIndices.length === 1) text.push(fields[textIndices[0]]);
-    else text.push(textIndices.map((k) => fields[k]).filter((t) => t.length > 0).join(' — '));
+    else
+      text.push(
+        textIndices
+          .map((k) => fields[k])
+          .filter((t) => t.length > 0)
+          .join(' — '),
+      );
     if (columnFeatures) {
       for (const k of featureIndices) {
         const parsed = parseFeatureNumber(fields[k]);
         if (typeof parsed === 'string') {
-          problems.add({ file, line: row.fieldLines[k], column: row.fieldColumns[k], message: `${parsed} in feature column "${featureColumns[featureIndices.indexOf(k)]}"` });
+          problems.add({
+            file,
+            line: row.fieldLines[k],
+            column: row.fieldColumns[k],
+            message: `${parsed} in feature column "${featureColumns[featureIndices.indexOf(k)]}"`,
+          });
           columnFeatures.push(0);
         } else columnFeatures.push(parsed);
       }
@@ -309,14 +350,21 @@ async function readEdges(
     checkDuplicateHeaderNames(header, file, duplicates);
     problems.addAll(duplicates);
     const list: LocatedProblem[] = [];
-    [sourceIndex, targetIndex] = requireColumns(header, file, [
-      { name: columns.source, role: 'edgeColumns.source in dataset.json' },
-      { name: columns.target, role: 'edgeColumns.target in dataset.json' },
-    ], list);
-    if (columns.weight !== undefined) [weightIndex] = requireColumns(header, file, [{ name: columns.weight, role: 'edgeColumns.weight in dataset.json' }], list);
+    [sourceIndex, targetIndex] = requireColumns(
+      header,
+      file,
+      [
+        { name: columns.source, role: 'edgeColumns.source in dataset.json' },
+        { name: columns.target, role: 'edgeColumns.target in dataset.json' },
+      ],
+      list,
+    );
+    if (columns.weight !== undefined)
+      [weightIndex] = requireColumns(header, file, [{ name: columns.weight, role: 'edgeColumns.weight in dataset.json' }], list);
     if (columns.time !== undefined) {
       // The default time column is optional in the edges file; one named in dataset.json is not.
-      if (manifestFile.explicit.has('edgeColumns.time')) [timeIndex] = requireColumns(header, file, [{ name: columns.time, role: 'edgeColumns.time in dataset.json' }], list);
+      if (manifestFile.explicit.has('edgeColumns.time'))
+        [timeIndex] = requireColumns(header, file, [{ name: columns.time, role: 'edgeColumns.time in dataset.json' }], list);
       else timeIndex = header.fields.indexOf(columns.time);
     }
     problems.addAll(list);
@@ -332,18 +380,35 @@ async function readEdges(
     let ok = true;
     if (u === undefined) {
       ok = false;
-      if (nodes.complete && !nodes.rejectedIds.has(row.fields[sourceIndex])) problems.add({ file, line: row.fieldLines[sourceIndex], column: row.fieldColumns[sourceIndex], message: `edge from unknown node "${row.fields[sourceIndex]}" (not in ${manifest.files.nodes})` });
+      if (nodes.complete && !nodes.rejectedIds.has(row.fields[sourceIndex]))
+        problems.add({
+          file,
+          line: row.fieldLines[sourceIndex],
+          column: row.fieldColumns[sourceIndex],
+          message: `edge from unknown node "${row.fields[sourceIndex]}" (not in ${manifest.files.nodes})`,
+        });
     }
     if (v === undefined) {
       ok = false;
-      if (nodes.complete && !nodes.rejectedIds.has(row.fields[targetIndex])) problems.add({ file, line: row.fieldLines[targetIndex], column: row.fieldColumns[targetIndex], message: `edge to unknown node "${row.fields[targetIndex]}" (not in ${manifest.files.nodes})` });
+      if (nodes.complete && !nodes.rejectedIds.has(row.fields[targetIndex]))
+        problems.add({
+          file,
+          line: row.fieldLines[targetIndex],
+          column: row.fieldColumns[targetIndex],
+          message: `edge to unknown node "${row.fields[targetIndex]}" (not in ${manifest.files.nodes})`,
+        });
     }
     let w = 1;
     if (weight) {
       const parsed = parseFeatureNumber(row.fields[weightIndex]);
       if (typeof parsed === 'string') {
         ok = false;
-        problems.add({ file, line: row.fieldLines[weightIndex], column: row.fieldColumns[weightIndex], message: `${parsed} in weight column "${columns.weight}"` });
+        problems.add({
+          file,
+          line: row.fieldLines[weightIndex],
+          column: row.fieldColumns[weightIndex],
+          message: `${parsed} in weight column "${columns.weight}"`,
+        });
       } else w = parsed;
     }
     let slice = -1;
@@ -351,7 +416,12 @@ async function readEdges(
       const interned = nodes.sliceKeys.intern(row.fields[timeIndex]);
       if (typeof interned === 'string') {
         ok = false;
-        problems.add({ file, line: row.fieldLines[timeIndex], column: row.fieldColumns[timeIndex], message: `unparseable time: ${interned}` });
+        problems.add({
+          file,
+          line: row.fieldLines[timeIndex],
+          column: row.fieldColumns[timeIndex],
+          message: `unparseable time: ${interned}`,
+        });
       } else slice = interned;
     }
     if (!ok) return;
@@ -392,7 +462,13 @@ async function readLabels(folder: string, manifest: DatasetManifest, nodes: Node
     for (const entry of read.entries) {
       const node = nodes.indexOfId.get(entry.id);
       if (node === undefined) {
-        if (nodes.complete && !nodes.rejectedIds.has(entry.id)) problems.add({ file: manifest.files.labels, line: entry.line, column: entry.idColumn, message: `label on unknown node "${entry.id}" (not in ${manifest.files.nodes})` });
+        if (nodes.complete && !nodes.rejectedIds.has(entry.id))
+          problems.add({
+            file: manifest.files.labels,
+            line: entry.line,
+            column: entry.idColumn,
+            message: `label on unknown node "${entry.id}" (not in ${manifest.files.nodes})`,
+          });
         continue;
       }
       let k = classIndex.get(entry.label);
@@ -413,12 +489,21 @@ interface FeaturesOutcome {
   sha256: string;
 }
 
-async function readFeatures(folder: string, manifest: DatasetManifest, nodes: NodesRead, problems: ProblemCollector): Promise<FeaturesOutcome> {
+async function readFeatures(
+  folder: string,
+  manifest: DatasetManifest,
+  nodes: NodesRead,
+  problems: ProblemCollector,
+): Promise<FeaturesOutcome> {
   const nodeCount = nodes.ids.length;
   const empty: FeaturesOutcome = { values: new Float32Array(0), names: [], sha256: '' };
   switch (manifest.features.source) {
     case 'columns':
-      return { values: nodes.columnFeatures ? nodes.columnFeatures.toArray() : new Float32Array(0), names: [...manifest.nodeColumns.features], sha256: '' };
+      return {
+        values: nodes.columnFeatures ? nodes.columnFeatures.toArray() : new Float32Array(0),
+        names: [...manifest.nodeColumns.features],
+        sha256: '',
+      };
     case 'tfidf': {
       if (problems.count > 0) return empty; // not worth computing for a dataset that will be rejected
       const { terms, features } = tfidfFeatures(nodes.text, { vocabularySize: manifest.features.vocabularySize });
@@ -446,11 +531,21 @@ async function readFeatures(folder: string, manifest: DatasetManifest, nodes: No
       }
       const { shape, data, descr } = matrix;
       if (shape.length !== 2) {
-        problems.add({ file, line: 1, column: 1, message: `features must be a 2-D array (nodes × features); shape is (${shape.join(', ')})` });
+        problems.add({
+          file,
+          line: 1,
+          column: 1,
+          message: `features must be a 2-D array (nodes × features); shape is (${shape.join(', ')})`,
+        });
         return { ...empty, sha256 };
       }
       if (nodes.complete && shape[0] !== nodeCount) {
-        problems.add({ file, line: 1, column: 1, message: `shape (${shape.join(', ')}) has ${shape[0]} rows but ${manifest.files.nodes} has ${nodeCount} nodes` });
+        problems.add({
+          file,
+          line: 1,
+          column: 1,
+          message: `shape (${shape.join(', ')}) has ${shape[0]} rows but ${manifest.files.nodes} has ${nodeCount} nodes`,
+        });
         return { ...empty, sha256 };
       }
       const bytesPer = descr.endsWith('8') ? 8 : 4;
@@ -458,7 +553,12 @@ async function readFeatures(folder: string, manifest: DatasetManifest, nodes: No
       for (let k = 0; k < data.length; k++) {
         if (!Number.isFinite(data[k])) {
           const row = Math.floor(k / shape[1]);
-          problems.add({ file, line: 1, column: dataStart + k * bytesPer + 1, message: `value at row ${row} (node "${nodes.ids[row] ?? row}"), column ${k % shape[1]} is ${data[k]}, not a finite number` });
+          problems.add({
+            file,
+            line: 1,
+            column: dataStart + k * bytesPer + 1,
+            message: `value at row ${row} (node "${nodes.ids[row] ?? row}"), column ${k % shape[1]} is ${data[k]}, not a finite number`,
+          });
         }
       }
       const names = Array.from({ length: shape[1] }, (_, j) => `f${j}`);
@@ -468,7 +568,11 @@ async function readFeatures(folder: string, manifest: DatasetManifest, nodes: No
 }
 
 /** Orders slices in time and renumbers node (and edge) slice indices accordingly. */
-function orderSlices(sliceKeys: SliceKeys, provisionalNodeSlice: Int32Array, provisionalEdgeSlice: Int32Array | undefined): { slices: SliceInfo[]; nodeSlice: Int32Array; edgeSlice?: Int32Array } {
+function orderSlices(
+  sliceKeys: SliceKeys,
+  provisionalNodeSlice: Int32Array,
+  provisionalEdgeSlice: Int32Array | undefined,
+): { slices: SliceInfo[]; nodeSlice: Int32Array; edgeSlice?: Int32Array } {
   const keys = sliceKeys.keys;
   const order = keys.map((_, k) => k).sort((a, b) => keys[a].order - keys[b].order);
   const finalIndex = new Int32Array(keys.length);

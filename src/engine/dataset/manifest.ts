@@ -28,7 +28,10 @@ export async function readManifest(folder: string): Promise<ManifestFile> {
   try {
     bytes = await fs.readFile(path.join(folder, MANIFEST_FILE));
   } catch (error) {
-    const message = (error as NodeJS.ErrnoException).code === 'ENOENT' ? `no ${MANIFEST_FILE} in ${folder} (create one with "graph-curator init")` : `cannot read ${MANIFEST_FILE}: ${(error as Error).message}`;
+    const message =
+      (error as NodeJS.ErrnoException).code === 'ENOENT'
+        ? `no ${MANIFEST_FILE} in ${folder} (create one with "graph-curator init")`
+        : `cannot read ${MANIFEST_FILE}: ${(error as Error).message}`;
     return { ...failed([{ file: MANIFEST_FILE, line: 0, column: 0, message }]), sha256: '' };
   }
   const sha256 = createHash('sha256').update(bytes).digest('hex');
@@ -77,7 +80,13 @@ interface CheckContext {
   positions: Map<string, { line: number; column: number }>;
 }
 
-const KIND_NAMES: Record<FieldSpec['type'], string> = { string: 'a string', boolean: 'true or false', integer: 'an integer', array: 'an array of strings', object: 'an object' };
+const KIND_NAMES: Record<FieldSpec['type'], string> = {
+  string: 'a string',
+  boolean: 'true or false',
+  integer: 'an integer',
+  array: 'an array of strings',
+  object: 'an object',
+};
 
 function checkNode(spec: FieldSpec, node: JsonNode, dottedPath: string, context: CheckContext): void {
   const problem = (at: { line: number; column: number }, message: string): void => {
@@ -94,7 +103,8 @@ function checkNode(spec: FieldSpec, node: JsonNode, dottedPath: string, context:
       return checkObject(spec, node, dottedPath, context, problem);
     case 'string':
       if (node.kind !== 'string') return problem(node, `${label} must be ${KIND_NAMES.string}`);
-      if (spec.enum && !spec.enum.includes(node.value)) return problem(node, `${label} must be one of ${spec.enum.map((v) => `"${v}"`).join(', ')}; found "${node.value}"`);
+      if (spec.enum && !spec.enum.includes(node.value))
+        return problem(node, `${label} must be one of ${spec.enum.map((v) => `"${v}"`).join(', ')}; found "${node.value}"`);
       if (spec.minLength !== undefined && node.value.length < spec.minLength) return problem(node, `${label} must not be empty`);
       return;
     case 'boolean':
@@ -179,18 +189,24 @@ function checkCrossFieldRules(
     problem('files.features', `"files.features" is only read when "features.source" is "npy" (it is "${manifest.features.source}")`);
   }
   for (const [key, name] of Object.entries(manifest.files)) {
-    if (name !== undefined && !isInsideFolder(name)) problem(`files.${key}`, `"files.${key}" must be a relative path inside the dataset folder; found "${name}"`);
+    if (name !== undefined && !isInsideFolder(name))
+      problem(`files.${key}`, `"files.${key}" must be a relative path inside the dataset folder; found "${name}"`);
   }
-  const where = (primary: string, secondary: string): string => (explicit.has(primary) ? primary : explicit.has(secondary) ? secondary : primary);
+  const where = (primary: string, secondary: string): string =>
+    explicit.has(primary) ? primary : explicit.has(secondary) ? secondary : primary;
   if (manifest.features.source === 'tfidf' && manifest.nodeColumns.text.length === 0) {
-    problem(where('features.source', 'nodeColumns.text'), `"features.source" is "tfidf"${explicit.has('features.source') ? '' : ' (the default)'} but "nodeColumns.text" lists no text columns: list text columns, or set "features.source" to "columns" or "npy"`);
+    problem(
+      where('features.source', 'nodeColumns.text'),
+      `"features.source" is "tfidf"${explicit.has('features.source') ? '' : ' (the default)'} but "nodeColumns.text" lists no text columns: list text columns, or set "features.source" to "columns" or "npy"`,
+    );
   }
   if (manifest.features.source === 'columns' && manifest.nodeColumns.features.length === 0) {
     problem(where('nodeColumns.features', 'features.source'), '"features.source" is "columns" but "nodeColumns.features" lists no columns');
   }
   const { id, text, features } = manifest.nodeColumns;
   for (const name of [...text, ...features]) {
-    if (name === id || name === manifest.time.column) problem('nodeColumns', `column "${name}" is the id or time column and cannot also be a text or feature column`);
+    if (name === id || name === manifest.time.column)
+      problem('nodeColumns', `column "${name}" is the id or time column and cannot also be a text or feature column`);
   }
 }
 

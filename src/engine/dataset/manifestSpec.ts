@@ -19,7 +19,9 @@ export interface ObjectSpec {
 }
 
 const column = (description: string, defaultName?: string): FieldSpec =>
-  defaultName === undefined ? { type: 'string', description, minLength: 1 } : { type: 'string', description, default: defaultName, minLength: 1 };
+  defaultName === undefined
+    ? { type: 'string', description, minLength: 1 }
+    : { type: 'string', description, default: defaultName, minLength: 1 };
 
 const fileName = (description: string, defaultName?: string): FieldSpec =>
   column(`${description} A path relative to the dataset folder, inside it.`, defaultName);
@@ -32,15 +34,23 @@ export const MANIFEST_SPEC: ObjectSpec = {
     $schema: { type: 'string', description: 'Optional link to this schema (ignored by Graph Curator).' },
     name: { type: 'string', description: 'Short name of the dataset.', minLength: 1 },
     description: { type: 'string', description: 'What the graph is and what its labels mean.', default: '' },
-    directed: { type: 'boolean', description: 'Whether edges have a direction. Undirected graphs pass messages both ways.', default: false },
+    directed: {
+      type: 'boolean',
+      description: 'Whether edges have a direction. Undirected graphs pass messages both ways.',
+      default: false,
+    },
     time: {
       type: 'object',
       description: 'How nodes are grouped into time slices.',
       properties: {
-        column: column('Column of the nodes file holding an ISO-8601 date (YYYY, YYYY-MM, YYYY-MM-DD or a date-time) or an integer step.', 'time'),
+        column: column(
+          'Column of the nodes file holding an ISO-8601 date (YYYY, YYYY-MM, YYYY-MM-DD or a date-time) or an integer step.',
+          'time',
+        ),
         granularity: {
           type: 'string',
-          description: 'Size of a time slice. Keys: year "2021", quarter "2021-Q3", month "2021-07", week (ISO) "2021-W05", day "2021-07-14", step: the integer.',
+          description:
+            'Size of a time slice. Keys: year "2021", quarter "2021-Q3", month "2021-07", week (ISO) "2021-W05", day "2021-07-14", step: the integer.',
           default: 'quarter',
           enum: SLICE_GRANULARITIES,
         },
@@ -55,7 +65,9 @@ export const MANIFEST_SPEC: ObjectSpec = {
         labels: fileName('Curated labels CSV (id,label), written sorted by id.', 'labels.csv'),
         classes: fileName('Class list (JSON).', 'classes.json'),
         log: fileName('Append-only label change log (JSON lines).', 'label-log.jsonl'),
-        features: fileName('NumPy .npy feature matrix (float32 or float64, one row per node in nodes-file order); used when features.source is "npy" (default "features.npy" then).'),
+        features: fileName(
+          'NumPy .npy feature matrix (float32 or float64, one row per node in nodes-file order); used when features.source is "npy" (default "features.npy" then).',
+        ),
       },
     },
     nodeColumns: {
@@ -63,8 +75,18 @@ export const MANIFEST_SPEC: ObjectSpec = {
       description: 'Columns of the nodes file.',
       properties: {
         id: column('Unique node id column.', 'id'),
-        text: { type: 'array', description: 'Free-text columns shown to curators and used for TF-IDF features.', default: [], items: { type: 'string', minLength: 1 } },
-        features: { type: 'array', description: 'Numeric feature columns (used when features.source is "columns").', default: [], items: { type: 'string', minLength: 1 } },
+        text: {
+          type: 'array',
+          description: 'Free-text columns shown to curators and used for TF-IDF features.',
+          default: [],
+          items: { type: 'string', minLength: 1 },
+        },
+        features: {
+          type: 'array',
+          description: 'Numeric feature columns (used when features.source is "columns").',
+          default: [],
+          items: { type: 'string', minLength: 1 },
+        },
       },
     },
     edgeColumns: {
@@ -81,8 +103,18 @@ export const MANIFEST_SPEC: ObjectSpec = {
       type: 'object',
       description: 'Where node features come from.',
       properties: {
-        source: { type: 'string', description: 'npy: files.features; columns: nodeColumns.features; tfidf: TF-IDF of nodeColumns.text.', default: 'tfidf', enum: ['npy', 'columns', 'tfidf'] },
-        vocabularySize: { type: 'integer', description: 'TF-IDF vocabulary cap: the terms found in most nodes are kept.', default: DEFAULT_VOCABULARY_SIZE, minimum: 1 },
+        source: {
+          type: 'string',
+          description: 'npy: files.features; columns: nodeColumns.features; tfidf: TF-IDF of nodeColumns.text.',
+          default: 'tfidf',
+          enum: ['npy', 'columns', 'tfidf'],
+        },
+        vocabularySize: {
+          type: 'integer',
+          description: 'TF-IDF vocabulary cap: the terms found in most nodes are kept.',
+          default: DEFAULT_VOCABULARY_SIZE,
+          minimum: 1,
+        },
       },
     },
     seed: { type: 'integer', description: 'Seed for every random choice, so runs are reproducible.', default: 7 },

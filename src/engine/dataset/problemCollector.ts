@@ -39,8 +39,11 @@ export class ProblemCollector {
   result(): LocatedProblem[] {
     const fileOrder = new Map<string, number>();
     for (const p of this.listed) if (!fileOrder.has(p.file)) fileOrder.set(p.file, fileOrder.size);
-    const sorted = [...this.listed].sort((a, b) => fileOrder.get(a.file)! - fileOrder.get(b.file)! || a.line - b.line || a.column - b.column);
-    for (const [file, count] of this.unlisted) sorted.push({ file, line: 0, column: 0, message: `${count} more problem${count === 1 ? '' : 's'} in this file not listed` });
+    const sorted = [...this.listed].sort(
+      (a, b) => fileOrder.get(a.file)! - fileOrder.get(b.file)! || a.line - b.line || a.column - b.column,
+    );
+    for (const [file, count] of this.unlisted)
+      sorted.push({ file, line: 0, column: 0, message: `${count} more problem${count === 1 ? '' : 's'} in this file not listed` });
     return sorted;
   }
 }

@@ -5,7 +5,8 @@ import { createHash } from 'node:crypto';
 import type { LocatedProblem } from './types';
 import { firstInvalidUtf8 } from './csv';
 
-export type TextFileRead = { text: string; sha256: string; missing: false } | { missing: true } | { problem: LocatedProblem; missing: false; sha256?: string };
+export type TextFileRead =
+  { text: string; sha256: string; missing: false } | { missing: true } | { problem: LocatedProblem; missing: false; sha256?: string };
 
 export async function readTextFile(filePath: string, file: string): Promise<TextFileRead> {
   let bytes: Buffer;
@@ -21,7 +22,11 @@ export async function readTextFile(filePath: string, file: string): Promise<Text
     const before = new TextDecoder().decode(bytes.subarray(0, bad));
     const lines = before.split(/\r\n|\r|\n/);
     const lastLine = lines[lines.length - 1].replace(/^\uFEFF/, '');
-    return { missing: false, sha256, problem: { file, line: lines.length, column: lastLine.length + 1, message: 'invalid UTF-8 byte sequence: save the file as UTF-8' } };
+    return {
+      missing: false,
+      sha256,
+      problem: { file, line: lines.length, column: lastLine.length + 1, message: 'invalid UTF-8 byte sequence: save the file as UTF-8' },
+    };
   }
   return { text: new TextDecoder().decode(bytes), sha256, missing: false };
 }

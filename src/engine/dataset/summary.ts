@@ -77,20 +77,39 @@ export function formatSummaryText(summary: DatasetSummary): string {
   const lines: string[] = [];
   const percent = (x: number): string => `${(100 * x).toFixed(1)}%`;
   lines.push(`${summary.name}  (${summary.folder})`);
-  lines.push(`${summary.nodeCount} nodes, ${summary.edgeCount} ${summary.directed ? 'directed' : 'undirected'} edges, ${summary.slices.length} slices by ${summary.granularity}`);
+  lines.push(
+    `${summary.nodeCount} nodes, ${summary.edgeCount} ${summary.directed ? 'directed' : 'undirected'} edges, ${summary.slices.length} slices by ${summary.granularity}`,
+  );
   lines.push(`features: ${summary.featureDim} from ${summary.featureSource}`);
-  lines.push(`labelled: ${summary.labelledCount} (${percent(1 - summary.unlabelledShare)}), unlabelled: ${summary.unlabelledCount} (${percent(summary.unlabelledShare)})`);
+  lines.push(
+    `labelled: ${summary.labelledCount} (${percent(1 - summary.unlabelledShare)}), unlabelled: ${summary.unlabelledCount} (${percent(summary.unlabelledShare)})`,
+  );
   lines.push('');
-  lines.push(...table(['slice', 'nodes', 'edges', 'labelled'], summary.slices.map((s) => [s.key, String(s.nodes), String(s.edges), String(s.labelled)])));
+  lines.push(
+    ...table(
+      ['slice', 'nodes', 'edges', 'labelled'],
+      summary.slices.map((s) => [s.key, String(s.nodes), String(s.edges), String(s.labelled)]),
+    ),
+  );
   lines.push('');
   if (summary.classes.length === 0) lines.push('no classes yet');
-  else lines.push(...table(['class', 'status', 'labelled'], summary.classes.map((c) => [c.name, c.status, String(c.labelled)])));
+  else
+    lines.push(
+      ...table(
+        ['class', 'status', 'labelled'],
+        summary.classes.map((c) => [c.name, c.status, String(c.labelled)]),
+      ),
+    );
   return lines.join('\n') + '\n';
 }
 
 function table(header: string[], rows: string[][]): string[] {
   const widths = header.map((h, k) => Math.max(h.length, ...rows.map((r) => r[k].length)));
   // First column left-aligned (names), the rest right-aligned (counts).
-  const render = (cells: string[]): string => cells.map((c, k) => (k === 0 ? c.padEnd(widths[k]) : c.padStart(widths[k]))).join('  ').trimEnd();
+  const render = (cells: string[]): string =>
+    cells
+      .map((c, k) => (k === 0 ? c.padEnd(widths[k]) : c.padStart(widths[k])))
+      .join('  ')
+      .trimEnd();
   return [render(header), ...rows.map(render)];
 }

@@ -35,7 +35,8 @@ export function parseIsoDate(value: string): ParsedDate | { error: string } {
   const month = m[2] === undefined ? 1 : Number(m[2]);
   const day = m[3] === undefined ? 1 : Number(m[3]);
   if (month < 1 || month > 12) return { error: `'${value}' has month ${month}: months run from 01 to 12` };
-  if (day < 1 || day > daysInMonth(year, month)) return { error: `'${value}' is not a calendar date: ${year}-${pad2(month)} has ${daysInMonth(year, month)} days` };
+  if (day < 1 || day > daysInMonth(year, month))
+    return { error: `'${value}' is not a calendar date: ${year}-${pad2(month)} has ${daysInMonth(year, month)} days` };
   if (m[4] !== undefined) {
     const hour = Number(m[4]);
     const minute = Number(m[5]);
@@ -60,7 +61,9 @@ export function sliceOf(value: string, granularity: SliceGranularity): SlicePars
   const date = parseIsoDate(value);
   if ('error' in date) return date;
   if (date.precision < REQUIRED_PRECISION[granularity]) {
-    return { error: `'${value}' is coarser than the granularity "${granularity}": give at least ${REQUIRED_PRECISION[granularity] === 2 ? 'YYYY-MM-DD' : 'YYYY-MM'}` };
+    return {
+      error: `'${value}' is coarser than the granularity "${granularity}": give at least ${REQUIRED_PRECISION[granularity] === 2 ? 'YYYY-MM-DD' : 'YYYY-MM'}`,
+    };
   }
   return dateSlice(date, granularity);
 }

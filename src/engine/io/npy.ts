@@ -59,7 +59,11 @@ export function parseNpy(buffer: Uint8Array, file: string): NpyMatrix {
   else fail(file, headerStart, `unsupported dtype '${descr}': expected little-endian float32 ('<f4') or float64 ('<f8')`);
   const expected = dataStart + count * bytesPer;
   if (buffer.length !== expected) {
-    fail(file, Math.min(buffer.length, dataStart), `data size mismatch: shape (${shape.join(', ')}) of ${descr} needs ${count * bytesPer} bytes, file has ${buffer.length - dataStart}`);
+    fail(
+      file,
+      Math.min(buffer.length, dataStart),
+      `data size mismatch: shape (${shape.join(', ')}) of ${descr} needs ${count * bytesPer} bytes, file has ${buffer.length - dataStart}`,
+    );
   }
   const data = new Float32Array(count);
   if (bytesPer === 4) {

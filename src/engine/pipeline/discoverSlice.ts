@@ -78,7 +78,11 @@ export function spaceFromFit(fit: PrefixFit, scores: SliceScores): DiscoverySpac
 }
 
 /** Candidates of the newest earlier run of the same slice, for stable ids and carried decisions. */
-export async function previousCandidates(dataset: Dataset, sliceKey: string, localOf: (global: number) => number): Promise<Candidate[] | undefined> {
+export async function previousCandidates(
+  dataset: Dataset,
+  sliceKey: string,
+  localOf: (global: number) => number,
+): Promise<Candidate[] | undefined> {
   for (const run of await listRuns(dataset.folder)) {
     if (run.slice !== sliceKey || !run.files.candidates) continue;
     const file = await readCandidatesFile(path.join(runsFolder(dataset.folder), run.runId, run.files.candidates));
@@ -88,9 +92,20 @@ export async function previousCandidates(dataset: Dataset, sliceKey: string, loc
 }
 
 /** Groups the rejected nodes of a fitted slice and returns the candidates file. */
-export async function discoverForFit(dataset: Dataset, fit: PrefixFit, scores: SliceScores, settings: RunSettings, runId: string | null): Promise<CandidatesFile> {
+export async function discoverForFit(
+  dataset: Dataset,
+  fit: PrefixFit,
+  scores: SliceScores,
+  settings: RunSettings,
+  runId: string | null,
+): Promise<CandidatesFile> {
   const space = spaceFromFit(fit, scores);
   const previous = await previousCandidates(dataset, scores.sliceKey, (g) => fit.prefix.localIndex[g]);
   const result = discoverInSpace(dataset, space, settings.seed, previous);
-  return candidatesFileOf(dataset, result, (l) => fit.prefix.globalIndex[l], { runId, slice: scores.sliceKey, scoresSource: 'run', rejectedCount: space.rejected.length });
+  return candidatesFileOf(dataset, result, (l) => fit.prefix.globalIndex[l], {
+    runId,
+    slice: scores.sliceKey,
+    scoresSource: 'run',
+    rejectedCount: space.rejected.length,
+  });
 }

@@ -188,10 +188,25 @@ function sliceMetrics(ctx: ChainContext, fit: PrefixFit, settings: RunSettings):
 }
 
 function emptySliceMetrics(slice: string): SliceMetrics {
-  return { slice, trainingNodes: 0, testNodes: 0, unseenTestNodes: 0, accuracy: null, macroF1: null, openSetMacroF1: null, noveltyAuroc: null, rejectionRate: 0, trainSeconds: 0 };
+  return {
+    slice,
+    trainingNodes: 0,
+    testNodes: 0,
+    unseenTestNodes: 0,
+    accuracy: null,
+    macroF1: null,
+    openSetMacroF1: null,
+    noveltyAuroc: null,
+    rejectionRate: 0,
+    trainSeconds: 0,
+  };
 }
 
-async function evaluateChain(ctx: ChainContext, settings: RunSettings, stageName: string): Promise<{ metrics: SliceMetrics[]; matrix: (number | null)[][] }> {
+async function evaluateChain(
+  ctx: ChainContext,
+  settings: RunSettings,
+  stageName: string,
+): Promise<{ metrics: SliceMetrics[]; matrix: (number | null)[][] }> {
   const { dataset } = ctx;
   const sliceCount = dataset.slices.length;
   const metrics: SliceMetrics[] = [];
@@ -288,5 +303,12 @@ export async function evaluateSlices(dataset: Dataset, settings: RunSettings, op
   const ctx: ChainContext = { dataset, reference, includeCurrentSlice: options.reference !== null, prefixes, propagated, options };
   const graphModel = await evaluateModel(ctx, settings);
   const baseline = await evaluateModel(ctx, { ...settings, model: 'mlp' });
-  return { dataset: dataset.manifest.name, reference: reference.source, slices: dataset.slices.map((s) => s.key), settings, graphModel, baseline };
+  return {
+    dataset: dataset.manifest.name,
+    reference: reference.source,
+    slices: dataset.slices.map((s) => s.key),
+    settings,
+    graphModel,
+    baseline,
+  };
 }

@@ -16,7 +16,12 @@ export interface ExternalScoresOptions {
   slice: number | null;
 }
 
-export async function readExternalScores(dataset: Dataset, csvPath: string, npyPath: string, options: ExternalScoresOptions): Promise<DiscoverySpace> {
+export async function readExternalScores(
+  dataset: Dataset,
+  csvPath: string,
+  npyPath: string,
+  options: ExternalScoresOptions,
+): Promise<DiscoverySpace> {
   const csvFile = path.basename(csvPath);
   const npyFile = path.basename(npyPath);
   const problems: LocatedProblem[] = [];
@@ -34,14 +39,17 @@ export async function readExternalScores(dataset: Dataset, csvPath: string, npyP
       if (idAt < 0 || scoreAt < 0) return;
       const at = (k: number) => ({ file: csvFile, line: row.fieldLines[k], column: row.fieldColumns[k] });
       const node = dataset.indexOfId.get(row.fields[idAt]);
-      if (node === undefined) return void problems.push({ ...at(idAt), message: `node "${row.fields[idAt]}" is not in ${dataset.manifest.files.nodes}` });
+      if (node === undefined)
+        return void problems.push({ ...at(idAt), message: `node "${row.fields[idAt]}" is not in ${dataset.manifest.files.nodes}` });
       if (seen.has(node)) return void problems.push({ ...at(idAt), message: `node "${row.fields[idAt]}" is listed twice` });
       seen.add(node);
       const score = Number(row.fields[scoreAt]);
-      if (row.fields[scoreAt].trim() === '' || !Number.isFinite(score)) return void problems.push({ ...at(scoreAt), message: `score "${row.fields[scoreAt]}" is not a finite number` });
+      if (row.fields[scoreAt].trim() === '' || !Number.isFinite(score))
+        return void problems.push({ ...at(scoreAt), message: `score "${row.fields[scoreAt]}" is not a finite number` });
       const predictedName = predictedAt >= 0 ? row.fields[predictedAt] : '';
       const predicted = predictedName === '' ? -1 : (classIndex.get(predictedName) ?? -1);
-      if (predictedName !== '' && predicted < 0) return void problems.push({ ...at(predictedAt), message: `predicted class "${predictedName}" is not a class of this dataset` });
+      if (predictedName !== '' && predicted < 0)
+        return void problems.push({ ...at(predictedAt), message: `predicted class "${predictedName}" is not a class of this dataset` });
       let rejected: number | null = null;
       if (rejectedAt >= 0) {
         const raw = row.fields[rejectedAt];
@@ -52,10 +60,15 @@ export async function readExternalScores(dataset: Dataset, csvPath: string, npyP
     },
     {
       onHeader: (header) => {
-        [idAt, scoreAt] = requireColumns(header, csvFile, [
-          { name: 'id', role: 'node id' },
-          { name: 'score', role: 'novelty score (higher = more novel)' },
-        ], problems);
+        [idAt, scoreAt] = requireColumns(
+          header,
+          csvFile,
+          [
+            { name: 'id', role: 'node id' },
+            { name: 'score', role: 'novelty score (higher = more novel)' },
+          ],
+          problems,
+        );
         predictedAt = header.fields.indexOf('predicted');
         rejectedAt = header.fields.indexOf('rejected');
       },
@@ -67,11 +80,20 @@ export async function readExternalScores(dataset: Dataset, csvPath: string, npyP
 
   const matrix = parseNpy(new Uint8Array(await fs.readFile(npyPath)), npyFile);
   if (matrix.shape.length !== 2 || matrix.shape[0] !== rows.length) {
-    throw new DatasetError([{ file: npyFile, line: 1, column: 1, message: `embeddings have shape (${matrix.shape.join(', ')}), expected (${rows.length}, dim): one row per row of ${csvFile}` }]);
+    throw new DatasetError([
+      {
+        file: npyFile,
+        line: 1,
+        column: 1,
+        message: `embeddings have shape (${matrix.shape.join(', ')}), expected (${rows.length}, dim): one row per row of ${csvFile}`,
+      },
+    ]);
   }
   for (let i = 0; i < matrix.data.length; i++) {
     if (!Number.isFinite(matrix.data[i])) {
-      throw new DatasetError([{ file: npyFile, line: 1, column: 1, message: `embedding row ${Math.floor(i / matrix.shape[1]) + 1} has a non-finite value` }]);
+      throw new DatasetError([
+        { file: npyFile, line: 1, column: 1, message: `embedding row ${Math.floor(i / matrix.shape[1]) + 1} has a non-finite value` },
+      ]);
     }
   }
   const dim = matrix.shape[1];

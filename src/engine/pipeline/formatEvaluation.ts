@@ -28,9 +28,13 @@ function summaryLine(name: string, evaluation: ModelEvaluation): string {
 
 export function formatEvaluation(report: EvaluationReport): string {
   const lines: string[] = [];
-  lines.push(`dataset ${report.dataset}; reference: ${report.reference}; graph model ${report.settings.model}, history ${String(report.settings.historyWindow)}, seed ${report.settings.seed}`);
+  lines.push(
+    `dataset ${report.dataset}; reference: ${report.reference}; graph model ${report.settings.model}, history ${String(report.settings.historyWindow)}, seed ${report.settings.seed}`,
+  );
   lines.push('');
-  lines.push('slice      test  unseen | acc graph  acc mlp | F1 graph  F1 mlp | open-F1 graph  mlp | AUROC graph  mlp | rejected graph  mlp');
+  lines.push(
+    'slice      test  unseen | acc graph  acc mlp | F1 graph  F1 mlp | open-F1 graph  mlp | AUROC graph  mlp | rejected graph  mlp',
+  );
   report.graphModel.perSlice.forEach((g: SliceMetrics, i: number) => {
     const b = report.baseline.perSlice[i];
     lines.push(

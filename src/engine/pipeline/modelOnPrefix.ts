@@ -166,7 +166,14 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
     noveltyRaw,
     noveltySmoothed,
     weights: output.weights,
-    timings: { graph: graphSeconds, ...(propagateSeconds ? { propagate: propagateSeconds } : {}), ...output.timings, crossFit: crossFitSeconds, score: scoreSeconds, smooth: smoothSeconds },
+    timings: {
+      graph: graphSeconds,
+      ...(propagateSeconds ? { propagate: propagateSeconds } : {}),
+      ...output.timings,
+      crossFit: crossFitSeconds,
+      score: scoreSeconds,
+      smooth: smoothSeconds,
+    },
   };
 }
 

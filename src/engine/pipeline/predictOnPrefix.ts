@@ -7,7 +7,12 @@ import type { PrefixFit } from './modelOnPrefix';
 import type { PrefixGraph } from './prefixGraph';
 import { modelSettingsOf, type RunSettings } from './runSettings';
 
-export async function predictOnPrefix(prefix: PrefixGraph, fit: PrefixFit, settings: RunSettings, precomputed?: PropagatedFeatures): Promise<Float32Array> {
+export async function predictOnPrefix(
+  prefix: PrefixGraph,
+  fit: PrefixFit,
+  settings: RunSettings,
+  precomputed?: PropagatedFeatures,
+): Promise<Float32Array> {
   const output = await trainAndPredict(
     prefix.inputs,
     { nodeIndex: new Int32Array(0), classIndex: new Int32Array(0), classCount: fit.modelClasses.length },

@@ -15,7 +15,12 @@ export async function readTruthFile(dataset: Dataset, filePath: string): Promise
   for (const entry of read.entries) {
     const node = dataset.indexOfId.get(entry.id);
     if (node === undefined) {
-      problems.push({ file, line: entry.line, column: entry.idColumn, message: `node "${entry.id}" is not in ${dataset.manifest.files.nodes}` });
+      problems.push({
+        file,
+        line: entry.line,
+        column: entry.idColumn,
+        message: `node "${entry.id}" is not in ${dataset.manifest.files.nodes}`,
+      });
       continue;
     }
     let c = classIndex.get(entry.label);

@@ -30,7 +30,10 @@ export interface RunRecord {
 
 export function newRunId(settings: RunSettings, sliceKey: string, now = new Date()): string {
   const stamp = now.toISOString().replace(/[:.]/g, '-');
-  const suffix = createHash('sha256').update(settingsHash(settings) + sliceKey + stamp).digest('hex').slice(0, 6);
+  const suffix = createHash('sha256')
+    .update(settingsHash(settings) + sliceKey + stamp)
+    .digest('hex')
+    .slice(0, 6);
   return `${stamp}-${sliceKey}-${suffix}`;
 }
 

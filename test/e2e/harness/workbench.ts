@@ -137,3 +137,49 @@ export async function activeEditorTabTitle(page: Page): Promise<string> {
   await tab.waitFor({ state: 'visible', timeout: 10_000 });
   return (await tab.innerText()).replace(/\s+/g, ' ').trim();
 }
+
+/** Waits for a quick pick (not the palette) whose placeholder reads `placeholder`; fails naming the one shown. */
+export async function waitForQuickPick(page: Page, placeholder: string, timeoutMs: number): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  let shown = '';
+  while (Date.now() < deadline) {
+    if (await quickInputBox(page).isVisible()) {
+      shown =
+        (await quickInputBox(page)
+          .getAttribute('placeholder')
+          .catch(() => null)) ?? '';
+      if (shown === placeholder) return;
+    }
+    await page.waitForTimeout(250);
+  }
+  throw new Error(`no quick pick "${placeholder}" within ${timeoutMs / 1000} s; last quick input shown: "${shown || '(none)'}"`);
+}
+
+/** The text of the focused row of the open quick pick. */
+export async function focusedQuickPickRow(page: Page): Promise<string> {
+  const texts = await rowTexts(quickInput(page).locator('.monaco-list-row.focused'));
+  return texts[0] ?? '';
+}
+
+/** Waits for a quick input (input box) and accepts its current value with Enter; returns that value. */
+export async function acceptInputBox(page: Page, title: string, timeoutMs: number): Promise<string> {
+  const titleLocator = quickInput(page).locator('.quick-input-title', { hasText: title });
+  await titleLocator.waitFor({ state: 'visible', timeout: timeoutMs });
+  const value = await quickInputBox(page).inputValue();
+  await quickInputBox(page).press('Enter');
+  await quickInput(page).waitFor({ state: 'hidden', timeout: 10_000 });
+  return value;
+}
+
+/** Clicks a button of the modal dialog once it shows; fails listing the dialog's text and buttons. */
+export async function clickDialogButton(page: Page, message: RegExp, button: string, timeoutMs: number): Promise<string> {
+  const dialog = page.locator('.monaco-dialog-box');
+  await dialog.waitFor({ state: 'visible', timeout: timeoutMs });
+  const text = (await dialog.innerText()).replace(/\s+/g, ' ').trim();
+  if (!message.test(text)) throw new Error(`the dialog reads "${text}", expected ${message}`);
+  const target = dialog.locator('.dialog-buttons .monaco-button', { hasText: button });
+  if ((await target.count()) === 0) throw new Error(`the dialog "${text}" has no button "${button}"`);
+  await target.first().click();
+  await dialog.waitFor({ state: 'hidden', timeout: 10_000 });
+  return text;
+}
