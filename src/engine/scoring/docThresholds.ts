@@ -23,35 +23,9 @@ export function docThresholds(
   trainClasses: Int32Array,
   alpha: number = DEFAULT_DOC_ALPHA,
 ): Float32Array {
-  const nodeCount = rowCountOf(probabilities, classCount, 'docThresholds');
-  if (trainNodes.length !== trainClasses.length) {
-    throw new RangeError(`docThresholds: ${trainNodes.length} training nodes but ${trainClasses.length} training classes`);
-  }
-  if (!Number.isFinite(alpha) || alpha < 0) throw new RangeError(`docThresholds: alpha must be a finite number ≥ 0, got ${alpha}`);
-  const squaredGap = new Float64Array(classCount);
-  const memberCount = new Int32Array(classCount);
-  for (let k = 0; k < trainNodes.length; k++) {
-    const node = trainNodes[k];
-    const cls = trainClasses[k];
-    if (node < 0 || node >= nodeCount)
-      throw new RangeError(`docThresholds: training node ${node} (entry ${k}) is outside 0..${nodeCount - 1}`);
-    if (cls < 0 || cls >= classCount)
-      throw new RangeError(`docThresholds: training class ${cls} (entry ${k}) is outside 0..${classCount - 1}`);
-    const p = probabilities[node * classCount + cls];
-    if (!Number.isFinite(p)) throw new RangeError(`docThresholds: probability of training node ${node}, class ${cls} is ${p}`);
-    squaredGap[cls] += (1 - p) * (1 - p);
-    memberCount[cls]++;
-  }
-  const thresholds = new Float32Array(classCount);
-  for (let c = 0; c < classCount; c++) {
-    if (memberCount[c] === 0) {
-      thresholds[c] = DOC_THRESHOLD_FLOOR;
-      continue;
-    }
-    const sigma = Math.sqrt(squaredGap[c] / memberCount[c]);
-    thresholds[c] = Math.max(DOC_THRESHOLD_FLOOR, 1 - alpha * sigma);
-  }
-  return thresholds;
+  const gaps = gapsFromOne(probabilities, classCount, trainNodes, trainClasses, alpha, 'docThresholds');
+  // σ² = mean((1 − p)²) because the mirrored sample's mean is exactly 1.
+  return thresholdsFromSpread(gaps, alpha, (g) => Math.sqrt(g.reduce((sum, d) => sum + d * d, 0) / g.length));
 }
 
 /** Scale factor that makes the median absolute deviation a consistent estimate of a Gaussian σ (1/Φ⁻¹(3/4)). */
@@ -70,31 +44,44 @@ export function docThresholdsRobust(
   trainClasses: Int32Array,
   alpha: number = DEFAULT_DOC_ALPHA,
 ): Float32Array {
-  const nodeCount = rowCountOf(probabilities, classCount, 'docThresholdsRobust');
+  const gaps = gapsFromOne(probabilities, classCount, trainNodes, trainClasses, alpha, 'docThresholdsRobust');
+  return thresholdsFromSpread(gaps, alpha, (g) => {
+    const sorted = g.sort((x, y) => x - y);
+    const mid = sorted.length >> 1;
+    return MAD_TO_SIGMA * (sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2);
+  });
+}
+
+/** |1 − p| of each training node's output for its own class, grouped by class, after checking the inputs. */
+function gapsFromOne(
+  probabilities: Float32Array,
+  classCount: number,
+  trainNodes: Int32Array,
+  trainClasses: Int32Array,
+  alpha: number,
+  name: string,
+): number[][] {
+  const nodeCount = rowCountOf(probabilities, classCount, name);
   if (trainNodes.length !== trainClasses.length) {
-    throw new RangeError(`docThresholdsRobust: ${trainNodes.length} training nodes but ${trainClasses.length} training classes`);
+    throw new RangeError(`${name}: ${trainNodes.length} training nodes but ${trainClasses.length} training classes`);
   }
-  if (!Number.isFinite(alpha) || alpha < 0) throw new RangeError(`docThresholdsRobust: alpha must be a finite number ≥ 0, got ${alpha}`);
+  if (!Number.isFinite(alpha) || alpha < 0) throw new RangeError(`${name}: alpha must be a finite number ≥ 0, got ${alpha}`);
   const gaps: number[][] = Array.from({ length: classCount }, () => []);
   for (let k = 0; k < trainNodes.length; k++) {
     const node = trainNodes[k];
     const cls = trainClasses[k];
-    if (node < 0 || node >= nodeCount || cls < 0 || cls >= classCount)
-      throw new RangeError(`docThresholdsRobust: entry ${k} (node ${node}, class ${cls}) is out of range`);
-    gaps[cls].push(Math.abs(1 - probabilities[node * classCount + cls]));
+    if (node < 0 || node >= nodeCount) throw new RangeError(`${name}: training node ${node} (entry ${k}) is outside 0..${nodeCount - 1}`);
+    if (cls < 0 || cls >= classCount) throw new RangeError(`${name}: training class ${cls} (entry ${k}) is outside 0..${classCount - 1}`);
+    const p = probabilities[node * classCount + cls];
+    if (!Number.isFinite(p)) throw new RangeError(`${name}: probability of training node ${node}, class ${cls} is ${p}`);
+    gaps[cls].push(Math.abs(1 - p));
   }
-  const thresholds = new Float32Array(classCount);
-  for (let c = 0; c < classCount; c++) {
-    if (gaps[c].length === 0) {
-      thresholds[c] = DOC_THRESHOLD_FLOOR;
-      continue;
-    }
-    const sorted = gaps[c].sort((a, b) => a - b);
-    const mid = sorted.length >> 1;
-    const median = sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-    thresholds[c] = Math.max(DOC_THRESHOLD_FLOOR, 1 - alpha * MAD_TO_SIGMA * median);
-  }
-  return thresholds;
+  return gaps;
+}
+
+/** threshold = max(0.5, 1 − α·σ) per class; a class with no training nodes gets the floor. */
+function thresholdsFromSpread(gaps: number[][], alpha: number, sigmaOf: (classGaps: number[]) => number): Float32Array {
+  return Float32Array.from(gaps, (g) => (g.length === 0 ? DOC_THRESHOLD_FLOOR : Math.max(DOC_THRESHOLD_FLOOR, 1 - alpha * sigmaOf(g))));
 }
 
 function checkThresholds(thresholds: Float32Array, classCount: number, name: string): void {
