@@ -40,8 +40,14 @@ export function registerRevalidateOnSave(services: HostServices): vscode.Disposa
     );
   });
 
+  // A dataset folder that is deleted or renamed away takes its problems with it.
+  const manifests = vscode.workspace.createFileSystemWatcher('**/dataset.json', true, true, false);
+  const onDelete = manifests.onDidDelete((uri) => services.diagnostics.clear(vscode.Uri.joinPath(uri, '..').fsPath));
+
   return new vscode.Disposable(() => {
     onSave.dispose();
+    onDelete.dispose();
+    manifests.dispose();
     for (const timer of timers.values()) clearTimeout(timer);
     timers.clear();
     for (const cancellation of running.values()) cancellation.cancel();
