@@ -118,9 +118,11 @@ export class DecisionApplier {
   private async showPreview(plan: ApplyPlan): Promise<void> {
     for (const file of [plan.classesFile, plan.labelsFile]) {
       if (!file.changed) continue;
-      const before = file.oldText === null ? this.previews.add(file.name, '', 'before apply (no file yet)') : vscode.Uri.file(file.path);
+      // The left side is the file as planned against (not the live file), so the diff still
+      // reads correctly once the apply has replaced the file.
+      const before = this.previews.add(file.name, file.oldText ?? '', file.oldText === null ? 'before apply (no file yet)' : 'before apply');
       const after = this.previews.add(file.name, file.newText);
-      const title = `${file.name}: now ↔ after apply`;
+      const title = `${file.name}: before ↔ after apply`;
       await vscode.commands.executeCommand('vscode.diff', before, after, title, { preview: file !== plan.labelsFile, preserveFocus: true });
     }
   }
