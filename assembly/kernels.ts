@@ -1,7 +1,9 @@
 // Dense and sparse products over row-major float32 matrices in linear memory, written with
 // 128-bit SIMD (four float32 lanes). The JavaScript kernels in src/engine/dense/matmul.ts and
 // src/engine/graph/spmm.ts are the reference: every function here sums its terms in the same
-// order as its reference, so results differ only by float32 rounding of the products.
+// order as its reference. The dense products round each product and partial sum to float32
+// (the references keep some in float64), so they agree to float32 rounding; the sparse
+// products reproduce their references bit for bit (see spmm).
 //
 // All pointers are byte offsets into memory chosen by the caller (src/engine/simd/kernels.ts);
 // sizes are element counts. Nothing here allocates.
@@ -21,15 +23,27 @@ const BLOCKS_PER_CHUNK = 8;
 /**
  * c[rows × cols] = a[rows × inner] · b[inner × cols] (overwritten). Rows go in chunks of 32:
  * for each 8-column panel of b, every 4-row block of the chunk runs over the panel while it is
- * in the first-level cache. list: scratch for 8 × (inner + 1) int32, where each block of rows
- * notes its non-zero inner positions, so sparse left rows (TF-IDF, one-hot) skip their zeros as
- * the reference does.
+ * in the first-level cache; the panels are first copied out of b into contiguous memory.
+ * scratch: 8 × (inner + 1) int32, where each block of rows notes its non-zero inner positions
+ * (so sparse left rows, TF-IDF or one-hot, skip their zeros as the reference does), then
+ * inner × cols float32 for the panels (see matMulListBytes in src/engine/simd/kernels.ts).
  */
 export function matMul(a: usize, b: usize, c: usize, rows: i32, inner: i32, cols: i32, list: usize): void {
   const aRow = (<usize>inner) << 2;
   const cRow = (<usize>cols) << 2;
   const listBytes = (<usize>(inner + 1)) << 2;
   const blockedRows = rows & ~3;
+  const panels = (list + (((<usize>(BLOCKS_PER_CHUNK * (inner + 1))) << 2) + 15)) & ~15;
+  const panelBytes = (<usize>inner) << 5;
+  for (let j = 0; j + 8 <= cols; j += 8) {
+    const panel = panels + <usize>(j >> 3) * panelBytes;
+    const bColumn = b + ((<usize>j) << 2);
+    for (let p = 0; p < inner; p++) {
+      const from = bColumn + <usize>p * cRow;
+      v128.store(panel + ((<usize>p) << 5), v128.load(from));
+      v128.store(panel + ((<usize>p) << 5), v128.load(from, 16), 16);
+    }
+  }
   for (let i0 = 0; i0 < blockedRows; i0 += BLOCKS_PER_CHUNK * 4) {
     const blocks = min(BLOCKS_PER_CHUNK, (blockedRows - i0) >> 2);
     for (let block = 0; block < blocks; block++) {
@@ -56,7 +70,7 @@ export function matMul(a: usize, b: usize, c: usize, rows: i32, inner: i32, cols
         matMulBlock8(
           a + row * aRow,
           aRow,
-          b + ((<usize>j) << 2),
+          panels + <usize>(j >> 3) * panelBytes,
           cRow,
           c + row * cRow + ((<usize>j) << 2),
           blockList,
@@ -98,8 +112,8 @@ export function matMul(a: usize, b: usize, c: usize, rows: i32, inner: i32, cols
   for (let i = blockedRows; i < rows; i++) matMulRow(a + <usize>i * aRow, b, c + <usize>i * cRow, inner, cols, list);
 }
 
-/** 4 rows × 8 columns of matMul: a0 is the block's first row, bColumn and c0 point at column j. */
-function matMulBlock8(a0: usize, aRow: usize, bColumn: usize, cRow: usize, c0: usize, list: usize, count: i32): void {
+/** 4 rows × 8 columns of matMul: panel holds the 8 columns of b contiguously (inner × 8). */
+function matMulBlock8(a0: usize, aRow: usize, panel: usize, cRow: usize, c0: usize, list: usize, count: i32): void {
   const a1 = a0 + aRow;
   const a2 = a1 + aRow;
   const a3 = a2 + aRow;
@@ -114,7 +128,7 @@ function matMulBlock8(a0: usize, aRow: usize, bColumn: usize, cRow: usize, c0: u
   for (let q = 0; q < count; q++) {
     const p = <usize>load<i32>(list + ((<usize>q) << 2));
     const at = p << 2;
-    const bp = bColumn + p * cRow;
+    const bp = panel + (p << 5);
     const b0 = v128.load(bp);
     const b1 = v128.load(bp, 16);
     let x = v128.load32_splat(a0 + at);

@@ -81,7 +81,7 @@ export function predictDenseSimd(
     const outputBiasAt = workspace.allocate(classCount * 4);
     const hiddenAt = workspace.allocate(Math.min(chunkRows, rowCount) * hiddenUnits * 4);
     const logitsAt = workspace.allocate(Math.min(chunkRows, rowCount) * classCount * 4);
-    const indexAt = workspace.allocate(matMulListBytes(Math.max(inputDim, hiddenUnits)));
+    const indexAt = workspace.allocate(matMulListBytes(Math.max(inputDim, hiddenUnits), Math.max(hiddenUnits, classCount)));
     workspace.floats(hiddenKernelAt, inputDim * hiddenUnits).set(parameters.hiddenKernel);
     workspace.floats(hiddenBiasAt, hiddenUnits).set(parameters.hiddenBias);
     workspace.floats(outputKernelAt, hiddenUnits * classCount).set(parameters.outputKernel);

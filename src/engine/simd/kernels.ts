@@ -8,10 +8,10 @@ import { kernelsWasmBase64 } from './kernelsWasm.generated';
 /** The module's exports; pointers are byte offsets into the workspace's memory. */
 export interface KernelExports {
   heapBase(): number;
-  /** list: matMulListBytes(inner) bytes of scratch. */
+  /** list: matMulListBytes(inner, cols) bytes of scratch. */
   matMul(a: number, b: number, c: number, rows: number, inner: number, cols: number, list: number): void;
   matMulTransposedA(a: number, g: number, c: number, rows: number, inner: number, cols: number, accumulate: number): void;
-  /** scratch: cols × inner floats; list: matMulListBytes(cols) bytes. */
+  /** scratch: cols × inner floats; list: matMulListBytes(cols, inner) bytes. */
   matMulTransposedB(g: number, w: number, c: number, rows: number, cols: number, inner: number, scratch: number, list: number): void;
   spmm(rowPtr: number, colIndex: number, values: number, dense: number, out: number, rowStart: number, rowEnd: number, cols: number): void;
   spmmTransposed(
@@ -30,9 +30,12 @@ export interface KernelExports {
   columnSums(g: number, out: number, rows: number, cols: number): void;
 }
 
-/** Bytes of the index scratch matMul needs for an inner dimension (8 blocks of rows, a count and `inner` indices each). */
-export function matMulListBytes(inner: number): number {
-  return 8 * (inner + 1) * 4;
+/**
+ * Bytes of scratch matMul needs: 8 blocks of rows with a count and up to `inner` indices each,
+ * then the right-hand matrix's columns copied into contiguous panels (inner × columns floats).
+ */
+export function matMulListBytes(inner: number, columns: number): number {
+  return ((8 * (inner + 1) * 4 + 15) & ~15) + inner * columns * 4;
 }
 
 const PAGE_BYTES = 65536;

@@ -64,8 +64,10 @@ export function createSimdShard(
     rowCount * hiddenUnits,
     parameterCount,
     classCount * hiddenUnits,
-    // matMul's index scratch: 8 blocks of rows, a count and up to `inner` indices each.
-    8 * (Math.max(inputDim, hiddenUnits, classCount) + 1),
+    // matMul's scratch (matMulListBytes in kernels.ts) for every product of the step.
+    8 * (Math.max(inputDim, hiddenUnits, classCount) + 1) +
+      4 +
+      Math.max(inputDim, hiddenUnits, classCount) * Math.max(hiddenUnits, classCount),
   ];
   const starts: number[] = [];
   // The module's own static data (if any) lies below 64 KiB: heapBase() is checked below.

@@ -120,7 +120,11 @@ export class DecisionApplier {
       if (!file.changed) continue;
       // The left side is the file as planned against (not the live file), so the diff still
       // reads correctly once the apply has replaced the file.
-      const before = this.previews.add(file.name, file.oldText ?? '', file.oldText === null ? 'before apply (no file yet)' : 'before apply');
+      const before = this.previews.add(
+        file.name,
+        file.oldText ?? '',
+        file.oldText === null ? 'before apply (no file yet)' : 'before apply',
+      );
       const after = this.previews.add(file.name, file.newText);
       const title = `${file.name}: before ↔ after apply`;
       await vscode.commands.executeCommand('vscode.diff', before, after, title, { preview: file !== plan.labelsFile, preserveFocus: true });
