@@ -4,6 +4,7 @@
 import type { CsrMatrix } from '../graph/csr';
 import { symmetricNormalized } from '../graph/normalize';
 import { SpmmPool } from '../graph/parallelSpmm';
+import { simdAvailable } from '../simd/kernels';
 import { spmm } from '../graph/spmm';
 import { throwIfCancelled, type CancelSignal } from '../util/progress';
 import type { GraphInputs, PropagatedFeatures } from './types';
@@ -37,10 +38,13 @@ export async function precomputePropagationWith(
   return interleave(inputs, blocks, steps);
 }
 
-/** Propagation for trainAndPredict: on two threads when the work is large enough. */
+/**
+ * Propagation for trainAndPredict: on two threads when the work is large enough and the SIMD
+ * kernel is missing (one thread with it measured faster than two with the JS loop).
+ */
 export async function propagateForTraining(inputs: GraphInputs, steps: number, cancel?: CancelSignal): Promise<PropagatedFeatures> {
   const work = inputs.adjacency.rowPtr[inputs.adjacency.rowCount] * inputs.featureDim * steps;
-  if (work < parallelPropagationThreshold) return precomputePropagation(inputs, steps);
+  if (work < parallelPropagationThreshold || simdAvailable()) return precomputePropagation(inputs, steps);
   const pool = await SpmmPool.create(2);
   try {
     return await precomputePropagationWith(pool, inputs, steps, cancel);
