@@ -4,6 +4,7 @@ import * as vscode from 'vscode';
 import { DecisionApplier } from './apply/applyDecisions';
 import { PreviewDocuments } from './apply/previewDocuments';
 import { exportDecisionsFile, registerReviewCommands } from './commands/reviewCommands';
+import { registerShowReportCommand } from './commands/showReport';
 import { registerSummaryCommand } from './commands/summary';
 import { registerValidateCommand } from './commands/validate';
 import { DatasetOverviews } from './datasetOverviews';
@@ -40,6 +41,7 @@ export function activate(context: vscode.ExtensionContext): void {
     DatasetOverviewEditor.register(overviews),
     registerValidateCommand(services),
     registerSummaryCommand(services),
+    registerShowReportCommand(services),
     registerRevalidateOnSave(services),
     ...registerReviewCommands({ ...services, overviews, tree, panels, applier }),
   );

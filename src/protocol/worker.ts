@@ -98,6 +98,34 @@ export interface ApplyPlanOutcome {
   commitMessage: string;
 }
 
+export interface ReportParams {
+  folder: string;
+  settings: RunSettings;
+  /** Held-out true labels (id,label); null or absent: each slice is tested on its own curated labels. */
+  truthFile?: string | null;
+  /** Sweeps on the newest few slices with fewer epochs; the main evaluation is unchanged. */
+  quick: boolean;
+  /** The webview's CSP nonce, put on the report's <style> and <script>. */
+  nonce: string;
+  /** Read and write runs/report-cache (default true); false in Restricted Mode, where nothing is written. */
+  useCache?: boolean;
+}
+
+export interface ReportOutcome {
+  /** A <style> element for the document head, colours from --vscode-* variables only. */
+  head: string;
+  /** The report markup and its tooltip <script>, for the document body. */
+  body: string;
+  summary: {
+    dataset: string;
+    slices: number;
+    fromCache: boolean;
+    /** When the report was computed (a cached report keeps its original time). */
+    createdAt: string;
+    computeSeconds: number;
+  };
+}
+
 export type CommitLabelsOutcome =
   { outcome: 'committed'; commit: string; root: string; files: string[] } | { outcome: 'nothing-to-commit' } | { outcome: 'no-repository' };
 
@@ -116,6 +144,8 @@ export interface RequestParams {
   exportDecisions: { file: string; decisions: DecisionsFile };
   /** git without a shell: commits only the dataset's label files; `initialise` runs git init first when needed. */
   commitLabels: { folder: string; message: string; initialise?: boolean };
+  /** The quality-over-time report, built and rendered in the worker. */
+  report: ReportParams;
 }
 
 export interface RequestResults {
@@ -131,6 +161,7 @@ export interface RequestResults {
   applyPlan: ApplyPlanOutcome;
   exportDecisions: string;
   commitLabels: CommitLabelsOutcome;
+  report: ReportOutcome;
 }
 
 export type RequestType = keyof RequestParams;
@@ -247,6 +278,20 @@ const isDecisionsFileShape = (value: unknown): boolean =>
   isRecord(value) && value.format === 'graph-curator-decisions' && Array.isArray(value.decisions) && typeof value.dataset === 'string';
 const isStringList = (value: unknown): value is string[] => Array.isArray(value) && value.every((item) => typeof item === 'string');
 
+function isReportParams(value: unknown): boolean {
+  if (!isFolderParams(value)) return false;
+  const { settings, truthFile, quick, nonce, useCache } = value as Record<string, unknown>;
+  return (
+    runSettingsProblem(settings) === null &&
+    (truthFile === undefined || truthFile === null || (typeof truthFile === 'string' && truthFile.length > 0)) &&
+    typeof quick === 'boolean' &&
+    // The nonce lands inside an HTML attribute and a CSP: base64 characters only.
+    typeof nonce === 'string' &&
+    /^[A-Za-z0-9+/=]{8,}$/.test(nonce) &&
+    (useCache === undefined || typeof useCache === 'boolean')
+  );
+}
+
 const paramGuards: { [K in RequestType]: Guard } = {
   validate: isFolderParams,
   summary: isFolderParams,
@@ -277,6 +322,7 @@ const paramGuards: { [K in RequestType]: Guard } = {
     typeof (value as Record<string, unknown>).message === 'string' &&
     ((value as Record<string, unknown>).message as string).trim().length > 0 &&
     ((value as Record<string, unknown>).initialise === undefined || typeof (value as Record<string, unknown>).initialise === 'boolean'),
+  report: isReportParams,
 };
 
 const resultGuards: { [K in RequestType]: Guard } = {
@@ -302,6 +348,16 @@ const resultGuards: { [K in RequestType]: Guard } = {
     (value.outcome === 'nothing-to-commit' ||
       value.outcome === 'no-repository' ||
       (value.outcome === 'committed' && typeof value.commit === 'string' && isStringList(value.files))),
+  report: (value) =>
+    isRecord(value) &&
+    typeof value.head === 'string' &&
+    typeof value.body === 'string' &&
+    isRecord(value.summary) &&
+    typeof value.summary.dataset === 'string' &&
+    isWhole(value.summary.slices, 0) &&
+    typeof value.summary.fromCache === 'boolean' &&
+    typeof value.summary.createdAt === 'string' &&
+    typeof value.summary.computeSeconds === 'number',
 };
 
 export const requestTypes = Object.keys(paramGuards) as RequestType[];

@@ -25,6 +25,7 @@ describe('protocol/worker guards', () => {
       'openReview',
       'overview',
       'planApply',
+      'report',
       'reviewDecisions',
       'reviewMessage',
       'score',
@@ -183,5 +184,45 @@ describe('protocol/worker guards', () => {
       true,
     );
     assert.equal(isResultMessage({ type: 'result', id: 9, request: 'commitLabels', value: { outcome: 'pushed' } }), false);
+  });
+
+  it('checks report parameters: settings in range, an optional truth file, quick, and a nonce fit for an HTML attribute', () => {
+    const settings = { ...defaultRunSettings };
+    const nonce = 'AbCdEfGh0123456789xyzXYZ98765432';
+    const report = (params: Record<string, unknown>) => ({
+      type: 'report',
+      id: 10,
+      params: { folder: '/d', settings, quick: true, nonce, ...params },
+    });
+    const good = [
+      report({}),
+      report({ truthFile: null }),
+      report({ truthFile: '/d/truth.csv', quick: false }),
+      report({ useCache: false }),
+    ];
+    for (const message of good) assert.equal(isEngineRequest(message), true, JSON.stringify(message));
+    const bad = [
+      report({ quick: undefined }),
+      report({ quick: 'yes' }),
+      report({ truthFile: '' }),
+      report({ truthFile: 3 }),
+      report({ nonce: undefined }),
+      report({ nonce: 'short' }),
+      report({ nonce: 'AbCdEfGh0123"><script>' }),
+      report({ useCache: 1 }),
+      report({ settings: { ...settings, epochs: 0 } }),
+      report({ folder: '' }),
+    ];
+    for (const message of bad) assert.equal(isEngineRequest(message), false, JSON.stringify(message));
+  });
+
+  it('checks a report result: head, body and a summary with a whole slice count', () => {
+    const summary = { dataset: 'wind-farm', slices: 3, fromCache: false, createdAt: '2026-12-01T00:00:00.000Z', computeSeconds: 1.5 };
+    const result = (value: unknown) => ({ type: 'result', id: 11, request: 'report', value });
+    assert.equal(isResultMessage(result({ head: '<style></style>', body: '<main></main>', summary })), true);
+    assert.equal(isResultMessage(result({ head: '<style></style>', summary })), false);
+    assert.equal(isResultMessage(result({ head: '<style></style>', body: '<main></main>' })), false);
+    assert.equal(isResultMessage(result({ head: '', body: '', summary: { ...summary, slices: 2.5 } })), false);
+    assert.equal(isResultMessage(result({ head: '', body: '', summary: { ...summary, fromCache: 'no' } })), false);
   });
 });

@@ -11,6 +11,7 @@ import { commitLabels, planDecisions, writePlan } from './applyRequests';
 import { datasetOverview } from './overviewRequest';
 import { writeFileAtomic } from '../io/atomicWrite';
 import { ReviewRegistry } from './reviewRegistry';
+import { buildReportForWebview } from './reportRequest';
 import { scoreAndSave } from './scoreRequest';
 
 export interface RequestContext {
@@ -59,6 +60,8 @@ export function createRequestHandlers(reviews = new ReviewRegistry()): RequestHa
     },
 
     commitLabels: ({ folder, message, initialise }) => commitLabels(folder, message, initialise),
+
+    report: (params, context) => buildReportForWebview(params, context),
   };
 }
 

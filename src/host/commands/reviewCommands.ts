@@ -85,7 +85,7 @@ async function openDatasetFolder(services: ReviewCommandServices): Promise<void>
 }
 
 /** The settings the next run uses; ignored settings are reported once per run. */
-function currentRunSettings(services: HostServices) {
+export function currentRunSettings(services: HostServices) {
   const config = vscode.workspace.getConfiguration('graphCurator');
   const read = runSettingsFromConfiguration((key: SettingKey) => config.get(key));
   for (const problem of read.problems) services.output.appendLine(`Settings: ${problem}`);
