@@ -1,9 +1,10 @@
 // SVG charts of the report, rendered to strings (in Node or a browser alike). Theme colours come
 // from CSS classes (series-*, axis, grid) so one SVG serves light, dark and high-contrast themes;
 // every data mark carries a <title> and a data-tip for the hover tooltip.
+import { scaleBand, scaleLinear, scalePoint, type ScaleLinear } from 'd3-scale';
+import { line } from 'd3-shape';
 import { escapeHtml, tickLabel } from './format';
 import { textColourOn, viridis } from './palette';
-import { linearScale, niceDomain, type LinearScale } from './scale';
 
 export type Marker = 'circle' | 'square' | 'triangle' | 'diamond';
 
@@ -67,7 +68,7 @@ export function markerPath(marker: Marker, x: number, y: number, size = 4.5): st
 
 interface Frame {
   x: (value: number) => number;
-  y: LinearScale;
+  y: ScaleLinear<number, number>;
   bottom: number;
   svgHeight: number;
   parts: string[];
@@ -83,8 +84,10 @@ function frame(spec: { title: string; x: AxisSpec; y: AxisSpec }, xValues: numbe
   const right = WIDTH - MARGIN.right;
   const parts: string[] = [svgOpen(spec.title, svgHeight)];
 
-  const yDomain = spec.y.domain ?? niceDomain(Math.min(0, ...yValues), Math.max(...yValues, 1e-9), 5);
-  const y = linearScale(yDomain, [bottom, MARGIN.top]);
+  const y = scaleLinear().range([bottom, MARGIN.top]);
+  if (spec.y.domain) y.domain(spec.y.domain);
+  else y.domain([Math.min(0, ...yValues), Math.max(...yValues, 1e-9)]).nice(5);
+  const yDomain = y.domain();
   const yFormat = spec.y.format ?? tickLabel;
   for (const t of y.ticks(5)) {
     parts.push(`<line class="grid" x1="${MARGIN.left}" x2="${right}" y1="${num(y(t))}" y2="${num(y(t))}"/>`);
@@ -95,8 +98,12 @@ function frame(spec: { title: string; x: AxisSpec; y: AxisSpec }, xValues: numbe
 
   let x: (value: number) => number;
   if (categories) {
-    const band = (right - MARGIN.left) / Math.max(1, categories.length);
-    x = (i: number) => MARGIN.left + (i + 0.5) * band;
+    // Point i sits in the middle of band i: half a step of padding at either end.
+    const point = scalePoint<number>()
+      .domain(categories.map((_, i) => i))
+      .range([MARGIN.left, right])
+      .padding(0.5);
+    x = (i: number) => point(i) ?? NaN;
     const every = Math.ceil(categories.length / 30);
     categories.forEach((c, i) => {
       if (i % every !== 0) return;
@@ -108,8 +115,15 @@ function frame(spec: { title: string; x: AxisSpec; y: AxisSpec }, xValues: numbe
       );
     });
   } else {
-    const xDomain = spec.x.domain ?? niceDomain(Math.min(...xValues), Math.max(...xValues), 6);
-    const scale = linearScale(xDomain[0] === xDomain[1] ? [xDomain[0] - 1, xDomain[1] + 1] : xDomain, [MARGIN.left + 10, right - 10]);
+    const xDomain =
+      spec.x.domain ??
+      scaleLinear()
+        .domain([Math.min(...xValues), Math.max(...xValues)])
+        .nice(6)
+        .domain();
+    const scale = scaleLinear()
+      .domain(xDomain[0] === xDomain[1] ? [xDomain[0] - 1, xDomain[1] + 1] : xDomain)
+      .range([MARGIN.left + 10, right - 10]);
     x = scale;
     const xFormat = spec.x.format ?? tickLabel;
     for (const t of scale.ticks(6)) {
@@ -136,18 +150,14 @@ export function lineChart(spec: LineChartSpec): string {
     all.map((p) => p.x),
     all.filter((p) => p.y !== null).map((p) => p.y as number),
   );
+  // One decimal in path coordinates, as for every other mark; a null value starts a new subpath.
+  const path = line<ChartPoint>()
+    .defined((p) => p.y !== null)
+    .x((p) => f.x(p.x))
+    .y((p) => f.y(p.y as number))
+    .digits(1);
   for (const series of spec.series) {
-    const segments: string[] = [];
-    let current = '';
-    for (const p of series.points) {
-      if (p.y === null) {
-        if (current) segments.push(current);
-        current = '';
-        continue;
-      }
-      current += `${current ? 'L' : 'M'}${num(f.x(p.x))},${num(f.y(p.y))}`;
-    }
-    if (current) segments.push(current);
+    const d = path(series.points);
     // Points at the same place (e.g. two history windows replaying the same nodes) share one label.
     const labels = new Map<string, { x: number; y: number; text: string[] }>();
     const marks = series.points
@@ -166,7 +176,7 @@ export function lineChart(spec: LineChartSpec): string {
     for (const l of labels.values())
       marks.push(`<text class="point-label" x="${num(l.x + 7)}" y="${num(l.y - 7)}">${escapeHtml(l.text.join(', '))}</text>`);
     f.parts.push(
-      `<g class="series ${series.className}${series.dashed ? ' dashed' : ''}">${segments.map((d) => `<path class="line" d="${d}"/>`).join('')}${marks.join('')}</g>`,
+      `<g class="series ${series.className}${series.dashed ? ' dashed' : ''}">${d ? `<path class="line" d="${d}"/>` : ''}${marks.join('')}</g>`,
     );
   }
   f.parts.push('</svg>');
@@ -191,14 +201,19 @@ export interface BarChartSpec {
 export function groupedBarChart(spec: BarChartSpec): string {
   const values = spec.series.flatMap((s) => s.values.filter((v): v is number => v !== null));
   const f = frame(spec, [], values.length ? values : [0]);
-  const categories = spec.x.categories;
-  const band = (WIDTH - MARGIN.right - MARGIN.left) / Math.max(1, categories.length);
-  const barWidth = Math.max(2, (band * 0.8) / spec.series.length);
-  const zero = f.y(Math.max(f.y.domain[0], Math.min(0, f.y.domain[1])));
+  // Each category's bars fill the middle 80% of its band, centred under the category's tick.
+  const band = scaleBand<number>()
+    .domain(spec.x.categories.map((_, i) => i))
+    .range([MARGIN.left, WIDTH - MARGIN.right])
+    .paddingInner(0.2)
+    .paddingOuter(0.1);
+  const barWidth = Math.max(2, band.bandwidth() / spec.series.length);
+  const [y0, y1] = f.y.domain();
+  const zero = f.y(Math.max(y0, Math.min(0, y1)));
   spec.series.forEach((series, s) => {
     const bars = series.values.map((v, i) => {
       if (v === null) return '';
-      const x = f.x(i) - (band * 0.8) / 2 + s * barWidth;
+      const x = (band(i) ?? NaN) + s * barWidth;
       const top = Math.min(zero, f.y(v));
       const height = Math.max(1, Math.abs(f.y(v) - zero));
       return `<g class="pt" data-tip="${escapeHtml(series.tips[i])}"><title>${escapeHtml(series.tips[i])}</title><rect class="bar" x="${num(x)}" y="${num(top)}" width="${num(barWidth - 1)}" height="${num(height)}"/></g>`;
