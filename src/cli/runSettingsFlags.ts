@@ -4,6 +4,8 @@ import { UsageError } from './args';
 import { modelKinds, type ModelKind } from '../engine/models/types';
 import { defaultRunSettings, type NoveltyMethod, type RunSettings } from '../engine/pipeline/runSettings';
 import type { Dataset } from '../engine/dataset/types';
+import { writeFileAtomic } from '../engine/io/atomicWrite';
+import type { CliIo } from './io';
 
 export const RUN_SETTING_FLAGS: FlagSpec[] = [
   { name: 'slice', value: 'T', description: 'Slice key to score (e.g. 2024-Q4); default the newest slice.' },
@@ -48,6 +50,19 @@ function numberFlag(args: ParsedArgs, name: string, check: (v: number) => boolea
   const value = Number(raw);
   if (raw.trim() === '' || !Number.isFinite(value) || !check(value)) throw new UsageError(`--${name} must be ${expectation}, got "${raw}"`);
   return value;
+}
+
+/** A whole-number flag at least `min`, or `fallback` when the flag is absent. */
+export function wholeNumberFlag(args: ParsedArgs, name: string, min: number, fallback: number): number {
+  return numberFlag(args, name, (v) => Number.isInteger(v) && v >= min, `a whole number ≥ ${min}`) ?? fallback;
+}
+
+/** Writes a report to --out (atomically) when asked, and prints it as JSON (--json) or as text. */
+export async function emitReport(args: ParsedArgs, io: CliIo, report: unknown, asText: () => string): Promise<void> {
+  const json = JSON.stringify(report, null, 2) + '\n';
+  const out = args.value('out');
+  if (out !== undefined) await writeFileAtomic(out, json);
+  io.stdout(args.has('json') ? json : asText());
 }
 
 export function runSettingsFromArgs(args: ParsedArgs): RunSettings {

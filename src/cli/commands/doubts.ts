@@ -1,11 +1,10 @@
 import type { CliIo } from '../io';
 import { EXIT } from '../io';
-import { parseArgs, UsageError, type CommandSpec, type ParsedArgs } from '../args';
+import { parseArgs, type CommandSpec, type ParsedArgs } from '../args';
 import { reportError } from '../command';
-import { RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs } from '../runSettingsFlags';
+import { emitReport, RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs, wholeNumberFlag } from '../runSettingsFlags';
 import { stageProgress } from '../progressLine';
 import { loadDataset } from '../../engine/dataset/load';
-import { writeFileAtomic } from '../../engine/io/atomicWrite';
 import { defaultDoubtFolds, findDoubtfulLabels } from '../../engine/secondLook/doubts';
 import { formatDoubtsTable } from '../../engine/secondLook/formatReports';
 
@@ -32,11 +31,7 @@ export const spec: CommandSpec = {
 };
 
 export function foldsFromArgs(parsed: ParsedArgs): number {
-  const raw = parsed.value('folds');
-  if (raw === undefined) return defaultDoubtFolds;
-  const folds = Number(raw);
-  if (raw.trim() === '' || !Number.isInteger(folds) || folds < 2) throw new UsageError(`--folds must be a whole number ≥ 2, got "${raw}"`);
-  return folds;
+  return wholeNumberFlag(parsed, 'folds', 2, defaultDoubtFolds);
 }
 
 export async function run(args: string[], io: CliIo): Promise<number> {
@@ -55,10 +50,7 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       progress: parsed.has('json') ? undefined : stageProgress(io),
       cancel: io.cancel,
     });
-    const json = JSON.stringify(report, null, 2) + '\n';
-    const out = parsed.value('out');
-    if (out !== undefined) await writeFileAtomic(out, json);
-    io.stdout(parsed.has('json') ? json : formatDoubtsTable(report));
+    await emitReport(parsed, io, report, () => formatDoubtsTable(report));
     return EXIT.ok;
   } catch (error) {
     return reportError(error, io, spec, folder);

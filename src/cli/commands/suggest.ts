@@ -1,11 +1,10 @@
 import type { CliIo } from '../io';
 import { EXIT } from '../io';
-import { parseArgs, UsageError, type CommandSpec, type ParsedArgs } from '../args';
+import { parseArgs, type CommandSpec, type ParsedArgs } from '../args';
 import { reportError } from '../command';
-import { RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs } from '../runSettingsFlags';
+import { emitReport, RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs, wholeNumberFlag } from '../runSettingsFlags';
 import { stageProgress } from '../progressLine';
 import { loadDataset } from '../../engine/dataset/load';
-import { writeFileAtomic } from '../../engine/io/atomicWrite';
 import { defaultSuggestionCount, suggestLabelNext } from '../../engine/secondLook/labelNext';
 import { formatSuggestionsTable } from '../../engine/secondLook/formatReports';
 
@@ -27,11 +26,7 @@ export const spec: CommandSpec = {
 };
 
 export function countFromArgs(parsed: ParsedArgs): number {
-  const raw = parsed.value('count');
-  if (raw === undefined) return defaultSuggestionCount;
-  const count = Number(raw);
-  if (raw.trim() === '' || !Number.isInteger(count) || count < 1) throw new UsageError(`--count must be a whole number ≥ 1, got "${raw}"`);
-  return count;
+  return wholeNumberFlag(parsed, 'count', 1, defaultSuggestionCount);
 }
 
 export async function run(args: string[], io: CliIo): Promise<number> {
@@ -49,10 +44,7 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       progress: parsed.has('json') ? undefined : stageProgress(io),
       cancel: io.cancel,
     });
-    const json = JSON.stringify(report, null, 2) + '\n';
-    const out = parsed.value('out');
-    if (out !== undefined) await writeFileAtomic(out, json);
-    io.stdout(parsed.has('json') ? json : formatSuggestionsTable(report));
+    await emitReport(parsed, io, report, () => formatSuggestionsTable(report));
     return EXIT.ok;
   } catch (error) {
     return reportError(error, io, spec, folder);
