@@ -6,7 +6,10 @@ import { existsSync, mkdirSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { loadDataset } from '../src/engine/dataset/load';
-import { fitSlice } from '../src/engine/pipeline/modelOnPrefix';
+import type { Dataset } from '../src/engine/dataset/types';
+import { fitSlice, type PrefixFit } from '../src/engine/pipeline/modelOnPrefix';
+import type { ReferenceLabels } from '../src/engine/pipeline/evaluateSlices';
+import { readTruthFile } from '../src/engine/pipeline/referenceLabels';
 import { prefixGraph } from '../src/engine/pipeline/prefixGraph';
 import { defaultRunSettings } from '../src/engine/pipeline/runSettings';
 import { precomputePropagation } from '../src/engine/models/train';
@@ -51,7 +54,8 @@ function torchPython(): string | null {
 function runTorch(folder: string): Record<string, number> | null {
   const script = path.resolve(projectRoot, '..', 'shared', 'reference', 'torch_pipeline.py');
   const python = torchPython();
-  if (!existsSync(script) || !python) return null;
+  // BENCH_SKIP_TORCH=1 skips the reference run, e.g. when re-measuring our side only.
+  if (!existsSync(script) || !python || process.env.BENCH_SKIP_TORCH === '1') return null;
   const result = spawnSync(python, [script, folder, '--threads', '2'], { encoding: 'utf8', env: { ...process.env } });
   if (result.status !== 0) return null;
   const stages: Record<string, number> = {};
@@ -84,7 +88,9 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
   const dataset = await measure(figures, 'load', () => loadDataset(folder));
   const lastSlice = dataset.slices.length - 1;
   // Same work as the reference script: every curated label trains, every node is scored.
-  const settings = { ...defaultRunSettings, historyWindow: 'all' as const };
+  // BENCH_BATCH_ROWS=0 measures full-batch training for comparison.
+  const batchRows = process.env.BENCH_BATCH_ROWS ? Number(process.env.BENCH_BATCH_ROWS) : defaultRunSettings.batchRows;
+  const settings = { ...defaultRunSettings, historyWindow: 'all' as const, batchRows };
   const prefix = await measure(figures, 'graph', () => prefixGraph(dataset, lastSlice));
   const propagated = await measure(figures, 'propagate', () => precomputePropagation(prefix.inputs, 2));
   const fit = await measure(figures, 'train+score+smooth', () =>
@@ -94,7 +100,7 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
   let rejected = 0;
   for (const s of fit.noveltySmoothed) if (s > 0) rejected++;
   print(
-    `pipeline: ${dataset.nodeIds.length} nodes, ${dataset.edges.count} edges, ${dataset.featureDim} features, ${fit.training.nodes.length} training nodes, backend ${backend}`,
+    `pipeline: ${dataset.nodeIds.length} nodes, ${dataset.edges.count} edges, ${dataset.featureDim} features, ${fit.training.nodes.length} training nodes, batch rows ${batchRows || 'all'}, backend ${backend}`,
   );
   const torch = runTorch(folder);
   print(
@@ -118,6 +124,44 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
     print(`  ${name.padEnd(20)} ${ours.toFixed(2).padStart(9)}   ${formatBytes(peak).padStart(11)}   ${comparison}`);
   }
   print(`  rejected ${rejected} of ${fit.noveltySmoothed.length}`);
+  print(
+    `  timings of the fit (s): ${Object.entries(fit.timings)
+      .map(([k, v]) => `${k} ${v.toFixed(2)}`)
+      .join(', ')}`,
+  );
+  const truthFile = `${folder}.truth.csv`;
+  if (existsSync(truthFile))
+    print(`  against ${path.basename(truthFile)}: ${qualityAgainstTruth(dataset, fit, await readTruthFile(dataset, truthFile))}`);
+}
+
+/** Accuracy on unlabelled known-class nodes and rejection rates of known and unseen nodes: speed is only worth having at equal quality. */
+function qualityAgainstTruth(dataset: Dataset, fit: PrefixFit, truth: ReferenceLabels): string {
+  const knownClasses = dataset.classNames.length;
+  const classCount = fit.modelClasses.length;
+  let known = 0;
+  let right = 0;
+  let knownRejected = 0;
+  let unseen = 0;
+  let unseenRejected = 0;
+  for (let node = 0; node < dataset.nodeIds.length; node++) {
+    const actual = truth.classOfNode[node];
+    const local = fit.prefix.localIndex[node];
+    if (actual < 0 || local < 0 || dataset.labels[node] >= 0) continue;
+    const isRejected = fit.noveltySmoothed[local] > 0;
+    if (actual >= knownClasses) {
+      unseen++;
+      if (isRejected) unseenRejected++;
+      continue;
+    }
+    known++;
+    if (isRejected) knownRejected++;
+    let best = 0;
+    for (let c = 1; c < classCount; c++)
+      if (fit.probabilities[local * classCount + c] > fit.probabilities[local * classCount + best]) best = c;
+    if (fit.modelClasses[best] === actual) right++;
+  }
+  const share = (a: number, b: number) => (b === 0 ? 'n/a' : (a / b).toFixed(3));
+  return `accuracy on ${known} unlabelled known-class nodes ${share(right, known)}; rejected: known ${share(knownRejected, known)}, unseen-class ${share(unseenRejected, unseen)} of ${unseen}`;
 }
 
 if (process.argv[1] && /bench[\\/]pipeline\.ts$/.test(process.argv[1])) {

@@ -40,7 +40,16 @@ export const RUN_SETTING_FLAGS: FlagSpec[] = [
     description: 'Reject the fraction Q of the slice with the highest novelty instead of the DOC rule (default for msp and energy: 0.1).',
   },
   { name: 'label-rate', value: 'R', description: "Fraction of the window's labels used for training (default 1)." },
-  { name: 'epochs', value: 'N', description: `Training epochs (default ${defaultRunSettings.epochs}).` },
+  {
+    name: 'epochs',
+    value: 'N',
+    description: `Training steps: full-batch epochs, or one mini-batch each when the training rows exceed --batch-rows (default ${defaultRunSettings.epochs}).`,
+  },
+  {
+    name: 'batch-rows',
+    value: 'B',
+    description: `Rows per training mini-batch for mlp and sign, 0 = always full batch (default ${defaultRunSettings.batchRows}).`,
+  },
   { name: 'warm', description: "Warm-start each slice from the previous slice's model (trains the chain of slices)." },
 ];
 
@@ -103,6 +112,7 @@ export function runSettingsFromArgs(args: ParsedArgs): RunSettings {
   settings.rejectQuantile = numberFlag(args, 'quantile', (v) => v > 0 && v < 1, 'a fraction between 0 and 1') ?? settings.rejectQuantile;
   settings.labelRate = numberFlag(args, 'label-rate', (v) => v > 0 && v <= 1, 'a fraction in (0, 1]') ?? settings.labelRate;
   settings.epochs = numberFlag(args, 'epochs', (v) => Number.isInteger(v) && v >= 1, 'a whole number ≥ 1') ?? settings.epochs;
+  settings.batchRows = wholeNumberFlag(args, 'batch-rows', 0, settings.batchRows);
   settings.warmStart = args.has('warm');
   return settings;
 }

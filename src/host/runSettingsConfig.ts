@@ -19,6 +19,7 @@ export const hostDefaultRunSettings: RunSettings = {
   labelRate: 1,
   warmStart: false,
   epochs: 200,
+  batchRows: 8192,
   hiddenUnits: 64,
   learningRate: 0.01,
   seed: 7,

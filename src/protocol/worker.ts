@@ -264,6 +264,7 @@ export function runSettingsProblem(value: unknown): string | null {
     ['labelRate', isNumberIn(value.labelRate, Number.MIN_VALUE, 1)],
     ['warmStart', typeof value.warmStart === 'boolean'],
     ['epochs', isWhole(value.epochs, 1)],
+    ['batchRows', isWhole(value.batchRows, 0)],
     ['hiddenUnits', isWhole(value.hiddenUnits, 1)],
     ['learningRate', isNumberIn(value.learningRate, Number.MIN_VALUE, 10)],
     ['seed', isWhole(value.seed, Number.MIN_SAFE_INTEGER)],

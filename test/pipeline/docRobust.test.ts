@@ -40,19 +40,50 @@ describe('DOC thresholds with a robust scale, and the unclamped margin', () => {
     assert.ok(Math.abs(robust - 0.866566) < 1e-5, `robust threshold ${robust}`);
   });
 
-  it('gives a margin that is positive exactly where DOC rejects, and equals the clamped novelty there', () => {
+  it('gives a margin in logit units that is positive exactly where DOC rejects', () => {
     const probabilities = Float32Array.from([0.9, 0.1, 0.4, 0.45, 0.2, 0.95, 0.6, 0.6]);
     const thresholds = Float32Array.from([0.8, 0.7]);
     const margin = docMargin(probabilities, 2, thresholds);
     const novelty = docNovelty(probabilities, 2, thresholds);
     const rejected = docRejected(probabilities, 2, thresholds);
-    // Row 0: max(0.9/0.8, 0.1/0.7) = 1.125 → margin −0.125; row 1: max(0.5, 0.642857) → 0.357143;
-    // row 2: max(0.25, 1.357143) → −0.357143; row 3: max(0.75, 0.857143) → 0.142857.
-    const expected = [-0.125, 1 - 0.45 / 0.7, 1 - 0.95 / 0.7, 1 - 0.6 / 0.7];
+    const logit = (p: number) => Math.log(p / (1 - p));
+    // min over classes of logit(t_c) − logit(p_c), by hand: row 0 min(1.386294 − 2.197225, 0.847298 + 2.197225) = −0.810930;
+    // row 1 min(1.386294 + 0.405465, 0.847298 + 0.200671) = 1.047969; row 2 min(2.772589, 0.847298 − 2.944439) = −2.097141;
+    // row 3 min(1.386294 − 0.405465, 0.847298 − 0.405465) = 0.441833.
+    const expected = [-0.81093, 1.047969, -2.097141, 0.441833];
     expected.forEach((m, i) => {
-      assert.ok(Math.abs(margin[i] - m) < 1e-6, `row ${i}: ${margin[i]} vs ${m}`);
+      assert.ok(Math.abs(margin[i] - m) < 1e-5, `row ${i}: ${margin[i]} vs ${m}`);
       assert.equal(rejected[i], m > 0 ? 1 : 0);
-      assert.ok(Math.abs(novelty[i] - Math.max(0, m)) < 1e-6);
+      // The clamped novelty in [0, 1] keeps the probability form 1 − max_c p_c/t_c.
+      const ratio = Math.max(probabilities[2 * i] / 0.8, probabilities[2 * i + 1] / 0.7);
+      assert.ok(Math.abs(novelty[i] - Math.max(0, 1 - ratio)) < 1e-6);
     });
+    assert.ok(Math.abs(logit(0.8) - 1.386294) < 1e-6);
+  });
+
+  it('keeps the rule at saturated outputs and thresholds of 1', () => {
+    const below = 1 - 2 ** -24; // the largest float32 under 1
+    const probabilities = Float32Array.from([1, 0, below, 0, 0, 0]);
+    const margin = docMargin(probabilities, 2, Float32Array.from([1, 0.5]));
+    const rejected = docRejected(probabilities, 2, Float32Array.from([1, 0.5]));
+    assert.deepEqual(
+      Array.from(margin, (m) => (m > 0 ? 1 : 0)),
+      Array.from(rejected),
+    );
+    assert.deepEqual(Array.from(rejected), [0, 1, 1]);
+    assert.ok(margin.every(Number.isFinite));
+  });
+
+  it('lets a confident known node stay accepted beside a novel neighbour after smoothing', () => {
+    // Thresholds near 1 (well-separated classes): in probability units the known node's margin
+    // would be at most 1 − 1/0.99 ≈ −0.01, and one round at λ = 0.5 beside a margin of 0.7 flips it.
+    const probabilities = Float32Array.from([0.99999, 0.001, 0.3, 0.2]);
+    const thresholds = Float32Array.from([0.99, 0.99]);
+    const margin = docMargin(probabilities, 2, thresholds);
+    assert.ok(margin[0] < 0 && margin[1] > 0);
+    const smoothedKnown = 0.5 * margin[0] + 0.5 * margin[1];
+    assert.ok(smoothedKnown < 0, `smoothed margin of the known node ${smoothedKnown}`);
+    const inProbabilities = 0.5 * (1 - 0.99999 / 0.99) + 0.5 * (1 - 0.3 / 0.99);
+    assert.ok(inProbabilities > 0, 'the probability-unit margin would have rejected it');
   });
 });

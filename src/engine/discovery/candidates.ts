@@ -298,13 +298,20 @@ export function discoverCandidates(input: CandidateInput): DiscoveryResult {
   const scattered = Int32Array.from(rejected.filter((node) => !inCandidate[node])).sort();
 
   const groupTexts = kept.map((members) => Array.from(members, (node) => input.nodeText[node]));
-  const others: number[] = [];
-  for (let node = 0; node < nodeCount; node++) if (!isRejected[node]) others.push(node);
-  if (others.length > 0) {
-    // Text of the known part of the graph as one more group, so that words common everywhere rank low.
-    const sample = sampleIndices(others.length, backgroundTextSample, new SeededRandom(deriveSeed(input.seed, 4)));
-    groupTexts.push(Array.from(sample, (s) => input.nodeText[others[s]]));
+  // The known part of the graph as more groups, one per known class (its labelled nodes) and one
+  // for the unlabelled rest, so that words common everywhere rank low and words of one known
+  // class do not pass for a candidate's own.
+  const backgroundGroups: number[][] = Array.from({ length: input.classNames.length + 1 }, () => []);
+  for (let node = 0; node < nodeCount; node++) {
+    if (isRejected[node]) continue;
+    const label = input.labels[node];
+    backgroundGroups[label >= 0 && label < input.classNames.length ? label : input.classNames.length].push(node);
   }
+  backgroundGroups.forEach((nodes, b) => {
+    if (nodes.length === 0) return;
+    const sample = sampleIndices(nodes.length, backgroundTextSample, new SeededRandom(deriveSeed(input.seed, 4 + b)));
+    groupTexts.push(Array.from(sample, (s) => input.nodeText[nodes[s]]));
+  });
   const terms = classTfidfTopTerms(groupTexts, input.topTermCount ?? 10);
   const geometry = classGeometry(input.embeddings, dim, input.labels, input.classNames.length, input.knownClassCentroids);
   const ctx: Describer = { input, isRejected, geometry, silhouettes, itemOfNode };

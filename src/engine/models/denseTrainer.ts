@@ -1,5 +1,6 @@
-// Training of the feature-only network (mlp on X, sign on [X, ÂX, Â²X]): full batch over the
-// labelled rows only, as the reference does, with hand-written backprop (denseStep.ts) and
+// Training of the feature-only network (mlp on X, sign on [X, ÂX, Â²X]) over the labelled rows
+// only: full batch, as the reference does, up to settings.batchRows rows, mini-batches beyond
+// (miniBatches.ts), with hand-written backprop (denseStep.ts) and
 // Adam in plain typed arrays (adam.ts).
 import { predictDenseSimd, SimdDenseTrainingStep } from '../simd/denseTrainingStep';
 import { simdAvailable } from '../simd/kernels';
@@ -10,7 +11,9 @@ import { AdamOptimizer } from './adam';
 import { oneHotTargets, positiveWeights } from './classWeightedLoss';
 import { DenseTrainingStep, flattenParameters, predictDense, splitGradients, type DenseParameters } from './denseStep';
 import { dropoutMask } from './initialisation';
+import { batchPlan, batchRange, batchSchedule, laidOut } from './miniBatches';
 import { ParallelDenseTraining, sharedFloats } from './parallelDenseStep';
+import { splitRows } from './shardedTraining';
 import type { ModelSettings, ModelWeights, TrainingSet } from './types';
 import { tensorByName } from './weights';
 
@@ -76,14 +79,25 @@ export async function trainDenseNetwork(
   });
   const lossHistory: number[] = [];
   if (rowCount > 0 && settings.epochs > 0) {
-    const targets = oneHotTargets(train.classIndex, classCount);
-    const posWeight = positiveWeights(train.classIndex, classCount);
+    // Mini-batches need the SIMD shards' row ranges; the tfjs fallback always trains full batch.
+    const plan = simdAvailable() ? batchPlan(rowCount, settings.batchRows, random) : null;
+    const rows = plan ? laidOut(train.nodeIndex, plan.order) : train.nodeIndex;
+    const rowClasses = plan ? laidOut(train.classIndex, plan.order) : train.classIndex;
+    const schedule = plan ? batchSchedule(plan.batchCount, settings.epochs, random) : null;
+    const targets = oneHotTargets(rowClasses, classCount);
+    const posWeight = positiveWeights(rowClasses, classCount);
     const report = (epoch: number, loss: number) => {
       lossHistory.push(loss);
       progress.report('train', (epoch + 1) / settings.epochs);
     };
+    /** Rescales a gradient vector (loss first) computed at the all-rows loss scale to the batch's mean. */
+    const toBatchMean = (vector: Float32Array, batchRowCount: number) => {
+      if (batchRowCount === rowCount) return;
+      const factor = rowCount / batchRowCount;
+      for (let i = 0; i < vector.length; i++) vector[i] *= factor;
+    };
     if (parallel ?? rowCount * inputDim >= parallelTrainingThreshold) {
-      const sharedInputs = gatherRows(features, inputDim, train.nodeIndex, sharedFloats(rowCount * inputDim));
+      const sharedInputs = gatherRows(features, inputDim, rows, sharedFloats(rowCount * inputDim));
       const withDropout = settings.dropout > 0;
       // The WebAssembly SIMD kernels (src/engine/simd/) when the engine has them, tfjs-wasm otherwise.
       const training = await (simdAvailable() ? ParallelSimdTraining : ParallelDenseTraining).start(
@@ -96,17 +110,33 @@ export async function trainDenseNetwork(
         parallelShardCount,
         withDropout,
       );
+      const bounds = splitRows(rowCount, parallelShardCount);
+      /** Rows of every shard that step `epoch` uses (global row ranges), and their count. */
+      const stepRows = (epoch: number): { ranges: [number, number][]; count: number } => {
+        if (!schedule || !plan) return { ranges: [[0, rowCount]], count: rowCount };
+        const ranges = bounds.slice(0, -1).map((start, s): [number, number] => {
+          const [from, to] = batchRange(bounds[s + 1] - start, schedule[epoch], plan.batchCount);
+          return [start + from, start + to];
+        });
+        return { ranges, count: ranges.reduce((sum, [from, to]) => sum + to - from, 0) };
+      };
+      const drawMask = (epoch: number, mask: Float32Array) => {
+        const h = settings.hiddenUnits;
+        for (const [from, to] of stepRows(epoch).ranges)
+          dropoutMask((to - from) * h, settings.dropout, random, mask.subarray(from * h, to * h));
+      };
       try {
-        if (withDropout) dropoutMask(training.masks[0].length, settings.dropout, random, training.masks[0]);
+        if (withDropout) drawMask(0, training.masks[0]);
         for (let epoch = 0; epoch < settings.epochs; epoch++) {
           throwIfCancelled(cancel);
           flattenParameters(parameters, training.parameters);
           const current = withDropout ? epoch % 2 : null;
-          const running = training.run(current);
-          // Draw the next epoch's mask while the workers compute this one.
-          if (withDropout && epoch + 1 < settings.epochs)
-            dropoutMask(training.masks[1 - (epoch % 2)].length, settings.dropout, random, training.masks[1 - (epoch % 2)]);
-          const { loss, gradients } = splitGradients(await running, inputDim, settings.hiddenUnits, classCount);
+          const running = training.run(current, schedule && plan ? { index: schedule[epoch], count: plan.batchCount } : undefined);
+          // Draw the next step's mask while the workers compute this one.
+          if (withDropout && epoch + 1 < settings.epochs) drawMask(epoch + 1, training.masks[1 - (epoch % 2)]);
+          const summed = await running;
+          toBatchMean(summed, stepRows(epoch).count);
+          const { loss, gradients } = splitGradients(summed, inputDim, settings.hiddenUnits, classCount);
           optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
           report(epoch, loss);
         }
@@ -114,23 +144,25 @@ export async function trainDenseNetwork(
         await training.dispose();
       }
     } else {
-      const step = new (simdAvailable() ? SimdDenseTrainingStep : DenseTrainingStep)(
-        gatherRows(features, inputDim, train.nodeIndex),
-        rowCount,
-        inputDim,
-        targets,
-        posWeight,
-        settings.hiddenUnits,
-        1 / (rowCount * classCount),
-      );
+      const gathered = gatherRows(features, inputDim, rows);
+      const lossScale = 1 / (rowCount * classCount);
+      const step = simdAvailable()
+        ? new SimdDenseTrainingStep(gathered, rowCount, inputDim, targets, posWeight, settings.hiddenUnits, lossScale)
+        : new DenseTrainingStep(gathered, rowCount, inputDim, targets, posWeight, settings.hiddenUnits, lossScale);
       const mask = settings.dropout > 0 ? new Float32Array(rowCount * settings.hiddenUnits) : null;
       try {
         for (let epoch = 0; epoch < settings.epochs; epoch++) {
           throwIfCancelled(cancel);
-          if (mask) dropoutMask(mask.length, settings.dropout, random, mask);
-          const { loss, gradients } = step.run(parameters, mask);
+          const [from, to] = schedule && plan ? batchRange(rowCount, schedule[epoch], plan.batchCount) : [0, rowCount];
+          const h = settings.hiddenUnits;
+          if (mask) dropoutMask((to - from) * h, settings.dropout, random, mask.subarray(from * h, to * h));
+          const { loss, gradients } =
+            step instanceof SimdDenseTrainingStep ? step.run(parameters, mask, from, to) : step.run(parameters, mask);
+          const factor = rowCount / (to - from);
+          for (const g of [gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias])
+            if (factor !== 1) for (let i = 0; i < g.length; i++) g[i] *= factor;
           optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
-          report(epoch, loss);
+          report(epoch, loss * factor);
           await yieldToEventLoop();
         }
       } finally {

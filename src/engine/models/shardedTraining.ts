@@ -119,12 +119,15 @@ export class ShardedTraining {
 
   /**
    * One step over all shards with the current parameters and masks[maskIndex] (or no dropout
-   * when maskIndex is null). Returns the summed gradient vector (loss first); valid until the
-   * next run.
+   * when maskIndex is null). With `batch`, each shard uses only its rows batchRange(shard rows,
+   * index, count) (miniBatches.ts; SIMD shards only), and the gradient keeps the all-rows loss
+   * scale, so the caller rescales it. Returns the summed gradient vector (loss first); valid
+   * until the next run.
    */
-  async run(maskIndex: number | null): Promise<Float32Array> {
+  async run(maskIndex: number | null, batch?: { index: number; count: number }): Promise<Float32Array> {
     const done = this.waitForAll();
-    for (const worker of this.workers) worker.postMessage({ type: 'step', mask: maskIndex ?? -1 });
+    for (const worker of this.workers)
+      worker.postMessage({ type: 'step', mask: maskIndex ?? -1, batch: batch?.index ?? 0, batches: batch?.count ?? 1 });
     await done;
     // Shards are added in a fixed order, so a run is reproducible.
     this.summed.set(this.gradientViews[0]);

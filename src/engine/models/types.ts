@@ -26,7 +26,10 @@ export interface TrainingSet {
 export interface ModelSettings {
   kind: ModelKind;
   hiddenUnits: number;
+  /** Adam steps: full-batch epochs, or mini-batches when the training rows exceed batchRows. */
   epochs: number;
+  /** Rows per mini-batch of mlp/sign training (0 or ≥ the training rows = full batch). */
+  batchRows: number;
   learningRate: number;
   /** L2 penalty added to every gradient, as Adam's weight_decay in PyTorch does. */
   weightDecay: number;
@@ -41,6 +44,7 @@ export const defaultModelSettings: ModelSettings = {
   kind: 'sign',
   hiddenUnits: 64,
   epochs: 200,
+  batchRows: 8192,
   learningRate: 0.01,
   weightDecay: 5e-4,
   dropout: 0.5,

@@ -29,7 +29,13 @@ export interface RunSettings {
   /** Fraction of the window's labelled nodes used for training (seeded choice). */
   labelRate: number;
   warmStart: boolean;
+  /**
+   * Training steps (Adam updates) per model: full-batch epochs when the training rows fit in one
+   * batch of batchRows, otherwise one mini-batch per step (mlp and sign only).
+   */
   epochs: number;
+  /** Rows of a training mini-batch for mlp/sign (0 = always full batch); gcn/sage train full batch. */
+  batchRows: number;
   hiddenUnits: number;
   learningRate: number;
   seed: number;
@@ -49,6 +55,7 @@ export const defaultRunSettings: RunSettings = {
   labelRate: 1,
   warmStart: false,
   epochs: 200,
+  batchRows: 8192,
   hiddenUnits: 64,
   learningRate: 0.01,
   seed: 7,
@@ -69,6 +76,7 @@ export function modelSettingsOf(settings: RunSettings): ModelSettings {
     kind: settings.model,
     hiddenUnits: settings.hiddenUnits,
     epochs: settings.epochs,
+    batchRows: settings.batchRows,
     learningRate: settings.learningRate,
     weightDecay: 5e-4,
     dropout: 0.5,

@@ -35,8 +35,11 @@ export class SimdDenseTrainingStep {
     this.flat = new Float32Array(inputDim * hiddenUnits + hiddenUnits + hiddenUnits * posWeight.length + posWeight.length);
   }
 
-  /** mask: rows × hidden inverted-dropout mask (0 or 1/(1-rate)), or null for no dropout. */
-  run(parameters: DenseParameters, mask: Float32Array | null): LossAndGradients {
+  /**
+   * mask: rows × hidden inverted-dropout mask (0 or 1/(1-rate)), or null for no dropout. With a
+   * row range, only those rows count, at the all-rows loss scale (the caller rescales).
+   */
+  run(parameters: DenseParameters, mask: Float32Array | null, rowFrom = 0, rowTo = this.rowCount): LossAndGradients {
     const parts = [parameters.hiddenKernel, parameters.hiddenBias, parameters.outputKernel, parameters.outputBias];
     let at = 0;
     for (const part of parts) {
@@ -44,7 +47,7 @@ export class SimdDenseTrainingStep {
       at += part.length;
     }
     const out = new Float32Array(1 + this.flat.length);
-    runSimdShard(this.shard, this.flat, mask, out);
+    runSimdShard(this.shard, this.flat, mask, out, rowFrom, rowTo);
     const gradients = parts.map((part, i) => {
       const start = 1 + parts.slice(0, i).reduce((sum, p) => sum + p.length, 0);
       return out.subarray(start, start + part.length);

@@ -45,14 +45,17 @@ function workerMain(): void {
   } catch (error) {
     parentPort.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) });
   }
-  parentPort.on('message', (message: { type: string; mask: number }) => {
+  parentPort.on('message', (message: { type: string; mask: number; batch: number; batches: number }) => {
     try {
       if (message.type === 'dispose') {
         parentPort.close();
         return;
       }
       if (!shard) throw new Error('training step requested but the shard could not be set up');
-      shardFunctions.runSimdShard(shard, parameters, message.mask < 0 ? null : masks[message.mask], gradients);
+      // batchRange of models/miniBatches.ts, repeated because this code is shipped as text.
+      const rowFrom = Math.round((rowCount * message.batch) / message.batches);
+      const rowTo = Math.round((rowCount * (message.batch + 1)) / message.batches);
+      shardFunctions.runSimdShard(shard, parameters, message.mask < 0 ? null : masks[message.mask], gradients, rowFrom, rowTo);
       parentPort.postMessage({ type: 'done' });
     } catch (error) {
       parentPort.postMessage({ type: 'error', message: String(error instanceof Error ? error.stack : error) });

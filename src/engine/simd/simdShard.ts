@@ -119,19 +119,33 @@ export function createSimdShard(
 }
 
 /**
- * Loss and gradients of this shard's rows, written into out (layout of gradientLength: loss
- * first). parameters: [hidden kernel | hidden bias | output kernel | output bias];
- * mask: rows × hidden inverted-dropout mask, or null.
+ * Loss and gradients of this shard's rows [rowFrom, rowTo) (all of them by default), written
+ * into out (layout of gradientLength: loss first), scaled by the shard's lossScale whatever the
+ * range, so a mini-batch caller rescales by all rows / batch rows. parameters: [hidden kernel |
+ * hidden bias | output kernel | output bias]; mask: the shard's rows × hidden inverted-dropout
+ * mask (only the range's rows are read), or null.
  */
-export function runSimdShard(shard: SimdShard, parameters: Float32Array, mask: Float32Array | null, out: Float32Array): void {
-  const { rowCount, inputDim, hiddenUnits, classCount, kernels: k, at } = shard;
+export function runSimdShard(
+  shard: SimdShard,
+  parameters: Float32Array,
+  mask: Float32Array | null,
+  out: Float32Array,
+  rowFrom = 0,
+  rowTo = shard.rowCount,
+): void {
+  const { inputDim, hiddenUnits, classCount, kernels: k } = shard;
+  if (!(rowFrom >= 0 && rowFrom <= rowTo && rowTo <= shard.rowCount))
+    throw new RangeError(`training rows [${rowFrom}, ${rowTo}) are outside the shard's ${shard.rowCount} rows`);
+  const rowCount = rowTo - rowFrom;
+  // The range's inputs start further in; every other matrix is laid out from the range's first row.
+  const at = { ...shard.at, inputs: shard.at.inputs + rowFrom * inputDim * 4 };
   const buffer = shard.memory.buffer;
   const parameterCount = inputDim * hiddenUnits + hiddenUnits + hiddenUnits * classCount + classCount;
   const hiddenBiasAt = at.parameters + inputDim * hiddenUnits * 4;
   const outputKernelAt = hiddenBiasAt + hiddenUnits * 4;
   const outputBiasAt = outputKernelAt + hiddenUnits * classCount * 4;
   new Float32Array(buffer, at.parameters, parameterCount).set(parameters.subarray(0, parameterCount));
-  if (mask) new Float32Array(buffer, at.mask, rowCount * hiddenUnits).set(mask.subarray(0, rowCount * hiddenUnits));
+  if (mask) new Float32Array(buffer, at.mask, rowCount * hiddenUnits).set(mask.subarray(rowFrom * hiddenUnits, rowTo * hiddenUnits));
   const maskAt = mask ? at.mask : 0;
 
   // Forward: Hd = relu(X W1 + b1) ⊙ mask, Z = Hd W2 + b2.
@@ -142,11 +156,13 @@ export function runSimdShard(shard: SimdShard, parameters: Float32Array, mask: F
 
   // Class-weighted BCE, (1 - y) z + (1 + (w - 1) y) softplus(-z), and dZ in place of the logits.
   const logits = new Float32Array(buffer, at.logits, rowCount * classCount);
+  const targetOffset = rowFrom * classCount;
   let lossSum = 0;
   for (let e = 0; e < logits.length; e++) {
     const z = logits[e];
-    lossSum += shard.oneMinusTargets[e] * z + shard.logWeight[e] * (Math.log1p(Math.exp(-Math.abs(z))) + Math.max(-z, 0));
-    logits[e] = shard.scaledLogWeight[e] / (1 + Math.exp(-z)) - shard.scaledPositiveTarget[e];
+    const t = targetOffset + e;
+    lossSum += shard.oneMinusTargets[t] * z + shard.logWeight[t] * (Math.log1p(Math.exp(-Math.abs(z))) + Math.max(-z, 0));
+    logits[e] = shard.scaledLogWeight[t] / (1 + Math.exp(-z)) - shard.scaledPositiveTarget[t];
   }
 
   // Backward: dW2 = Hdᵀ dZ, db2 = Σ dZ, dHd = dZ W2ᵀ, dZ1 = dHd ⊙ mask ⊙ [H > 0], dW1 = Xᵀ dZ1, db1 = Σ dZ1.
