@@ -1,7 +1,11 @@
 import { strict as assert } from 'node:assert';
 import { modelClassSet, selectTrainingNodes } from '../../src/engine/pipeline/trainingWindow';
 import { prefixGraph } from '../../src/engine/pipeline/prefixGraph';
-import { stratifiedFolds } from '../../src/engine/pipeline/crossFit';
+import { ENOUGH_HELD_OUT_ROWS, foldModelsFor, outOfFoldProbabilities, stratifiedFolds } from '../../src/engine/pipeline/crossFit';
+import { buildAdjacency } from '../../src/engine/graph/csr';
+import { defaultModelSettings } from '../../src/engine/models/types';
+import { initTensorflow } from '../../src/engine/tf/backend';
+import { SeededRandom } from '../../src/engine/util/random';
 import { loadSmall } from './pipelineFixture';
 
 describe('training window and graph prefix', () => {
@@ -87,5 +91,42 @@ describe('training window and graph prefix', () => {
       classes.forEach((k, i) => k === c && counts[folds[i]]++);
       assert.ok(Math.max(...counts) - Math.min(...counts) <= 1, `class ${c} spread over folds as ${counts.join('/')}`);
     }
+  });
+
+  it('trains only as many fold models as it takes to hold out enough rows', () => {
+    assert.equal(foldModelsFor(109, 3), 3);
+    assert.equal(foldModelsFor(3 * ENOUGH_HELD_OUT_ROWS, 3), 1);
+    assert.equal(foldModelsFor(5000, 3), 2);
+    assert.equal(foldModelsFor(37_354, 3), 1);
+    assert.equal(foldModelsFor(100, 5), 5);
+  });
+
+  it('leaves the rows of untrained folds unscored and scores the rest with models that never saw them', async () => {
+    await initTensorflow();
+    const random = new SeededRandom(3);
+    const [nodes, dims, classes] = [60, 4, 2];
+    const features = Float32Array.from({ length: nodes * dims }, (_, i) => (Math.floor(i / dims) % 2) * 2 + random.normal() * 0.3);
+    const noEdges = buildAdjacency(nodes, { source: new Int32Array(0), target: new Int32Array(0), weight: null, count: 0 }, true);
+    const trainLocal = Int32Array.from({ length: nodes }, (_, i) => i);
+    const trainClass = Int32Array.from(trainLocal, (i) => i % 2);
+    const seen: { rows: Int32Array; trained: Int32Array }[] = [];
+    const outputs = await outOfFoldProbabilities({
+      inputs: { nodeCount: nodes, features, featureDim: dims, adjacency: noEdges },
+      trainLocal,
+      trainClass,
+      classCount: classes,
+      settings: { ...defaultModelSettings, kind: 'mlp', epochs: 30, hiddenUnits: 8 },
+      folds: 3,
+      foldModels: 1,
+      observeFold: (f) => seen.push({ rows: f.heldOutRows, trained: f.training.nodeIndex }),
+    });
+    assert.equal(seen.length, 1);
+    const fold = stratifiedFolds(trainClass, 3, defaultModelSettings.seed);
+    for (let row = 0; row < nodes; row++) {
+      const scored = !Number.isNaN(outputs[row * classes]);
+      assert.equal(scored, fold[row] === 0, `row ${row} (fold ${fold[row]})`);
+    }
+    const trainedOn = new Set(seen[0].trained);
+    for (const row of seen[0].rows) assert.ok(!trainedOn.has(trainLocal[row]), `row ${row} was scored by a model trained on it`);
   });
 });

@@ -36,6 +36,12 @@ export interface CrossFitRequest {
   classCount: number;
   settings: ModelSettings;
   folds: number;
+  /**
+   * Train only the models of the first foldModels folds (default: all). The rows of the other
+   * folds are left unscored (NaN): on a large training set one held-out fold is already a big
+   * enough sample to fit thresholds on, and every fold model costs a whole training.
+   */
+  foldModels?: number;
   precomputed?: PropagatedFeatures;
   progress?: ProgressSink;
   cancel?: CancelSignal;
@@ -55,14 +61,30 @@ export interface FoldObservation {
   logits: Float32Array;
 }
 
-/** trainCount × classCount sigmoid outputs, row i = training node i scored by the model of the other folds. */
+/**
+ * Held-out rows worth having for the threshold fit: beyond them, more fold models only refine
+ * what is already well estimated (our choice: a few hundred members per class for a median
+ * absolute deviation at ten classes or so).
+ */
+export const ENOUGH_HELD_OUT_ROWS = 2000;
+
+/** Fold models needed for at least ENOUGH_HELD_OUT_ROWS held-out rows (all folds for small training sets). */
+export function foldModelsFor(trainingRows: number, folds: number): number {
+  return Math.min(folds, Math.max(1, Math.ceil(ENOUGH_HELD_OUT_ROWS / (trainingRows / folds))));
+}
+
+/**
+ * trainCount × classCount sigmoid outputs, row i = training node i scored by the model of the
+ * other folds (NaN for rows of folds beyond request.foldModels).
+ */
 export async function outOfFoldProbabilities(request: CrossFitRequest): Promise<Float32Array> {
   const { trainLocal, trainClass, classCount, folds } = request;
   const fold = stratifiedFolds(trainClass, folds, request.settings.seed);
-  const result = new Float32Array(trainLocal.length * classCount);
-  for (let f = 0; f < folds; f++) {
+  const result = new Float32Array(trainLocal.length * classCount).fill(Number.NaN);
+  const foldModels = Math.min(folds, request.foldModels ?? folds);
+  for (let f = 0; f < foldModels; f++) {
     throwIfCancelled(request.cancel);
-    request.progress?.report('cross-fit', f / folds);
+    request.progress?.report('cross-fit', f / foldModels);
     const keep: number[] = [];
     const held: number[] = [];
     fold.forEach((k, i) => (k === f ? held : keep).push(i));

@@ -2,7 +2,7 @@
 // at the end of the slice, then turn outputs into probabilities, DOC thresholds and novelty.
 import type { Dataset } from '../dataset/types';
 import { precomputePropagation, trainAndPredict } from '../models/train';
-import { outOfFoldProbabilities } from './crossFit';
+import { foldModelsFor, outOfFoldProbabilities } from './crossFit';
 import type { ModelWeights, PropagatedFeatures } from '../models/types';
 import { docMargin, docThresholds, docThresholdsRobust } from '../scoring/docThresholds';
 import { energyNovelty, maxSoftmaxNovelty } from '../scoring/noveltyScores';
@@ -114,6 +114,7 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
   const classCount = modelClasses.length;
   let thresholdSource = output.logits;
   let thresholdRows = trainLocal;
+  let thresholdClasses = trainClass;
   let crossFitSeconds = 0;
   if (settings.thresholdFolds >= 2) {
     const crossFitStarted = performance.now();
@@ -124,20 +125,24 @@ export async function fitSlice(dataset: Dataset, settings: RunSettings, slice: n
       classCount,
       settings: modelSettings,
       folds: settings.thresholdFolds,
+      foldModels: foldModelsFor(trainLocal.length, settings.thresholdFolds),
       precomputed,
       progress: options.progress,
       cancel: options.cancel,
     });
     crossFitSeconds = (performance.now() - crossFitStarted) / 1000;
     thresholdSource = outOfFold;
-    thresholdRows = Int32Array.from(trainLocal.keys());
+    // Rows of folds whose model was not trained (large training sets) stay NaN and are left out.
+    const scored = Array.from(trainLocal.keys()).filter((row) => !Number.isNaN(outOfFold[row * classCount]));
+    thresholdRows = Int32Array.from(scored);
+    thresholdClasses = Int32Array.from(scored, (row) => trainClass[row]);
   }
   const scoreStarted = performance.now();
   const probabilities = sigmoid(output.logits);
   const thresholdFit: ThresholdFit = {
     probabilities: thresholdSource === output.logits ? probabilities : thresholdSource,
     rows: thresholdRows,
-    classes: trainClass,
+    classes: thresholdClasses,
     scale: settings.thresholdScale,
   };
   const thresholds = thresholdsFor(thresholdFit, classCount, settings.alpha);
