@@ -33,6 +33,19 @@ function blobs(rows: number, dims: number, classes: number, seed: number) {
   return { features, classIndex };
 }
 
+/** Blobs with their one-hot targets, class weights and seeded starting parameters, for one training step. */
+function stepProblem(rows: number, inputDim: number, hidden: number, classes: number, seed: number) {
+  const random = new SeededRandom(seed);
+  const { features, classIndex } = blobs(rows, inputDim, classes, seed + 1);
+  const parameters = {
+    hiddenKernel: glorotUniform(inputDim, hidden, random),
+    hiddenBias: new Float32Array(hidden).fill(0.05),
+    outputKernel: glorotUniform(hidden, classes, random),
+    outputBias: new Float32Array(classes).fill(-0.1),
+  };
+  return { features, targets: oneHotTargets(classIndex, classes), posWeight: positiveWeights(classIndex, classes), parameters };
+}
+
 describe('models/miniBatches', () => {
   before(async () => {
     await initTensorflow('wasm');
@@ -80,17 +93,8 @@ describe('models/miniBatches', () => {
 
   it("a row range's rescaled gradient is the full-batch gradient of a model trained on those rows alone", () => {
     // Single thread and the two-thread shards: both must give the mean over the batch's rows.
-    const random = new SeededRandom(5);
     const [rows, inputDim, hidden, classes] = [90, 11, 7, 3];
-    const { features, classIndex } = blobs(rows, inputDim, classes, 6);
-    const targets = oneHotTargets(classIndex, classes);
-    const posWeight = positiveWeights(classIndex, classes);
-    const parameters = {
-      hiddenKernel: glorotUniform(inputDim, hidden, random),
-      hiddenBias: new Float32Array(hidden).fill(0.05),
-      outputKernel: glorotUniform(hidden, classes, random),
-      outputBias: new Float32Array(classes).fill(-0.1),
-    };
+    const { features, targets, posWeight, parameters } = stepProblem(rows, inputDim, hidden, classes, 5);
     const all = new SimdDenseTrainingStep(features, rows, inputDim, targets, posWeight, hidden, 1 / (rows * classes));
     const [from, to] = [30, 61];
     const ranged = all.run(parameters, null, from, to);
@@ -111,17 +115,8 @@ describe('models/miniBatches', () => {
   });
 
   it('two worker shards given a batch compute the gradient of exactly the rows batchRange names in each shard', async () => {
-    const random = new SeededRandom(8);
     const [rows, inputDim, hidden, classes] = [101, 9, 6, 4];
-    const { features, classIndex } = blobs(rows, inputDim, classes, 9);
-    const targets = oneHotTargets(classIndex, classes);
-    const posWeight = positiveWeights(classIndex, classes);
-    const parameters = {
-      hiddenKernel: glorotUniform(inputDim, hidden, random),
-      hiddenBias: new Float32Array(hidden).fill(0.05),
-      outputKernel: glorotUniform(hidden, classes, random),
-      outputBias: new Float32Array(classes).fill(-0.1),
-    };
+    const { features, targets, posWeight, parameters } = stepProblem(rows, inputDim, hidden, classes, 8);
     const shared = new Float32Array(new SharedArrayBuffer(features.length * 4));
     shared.set(features);
     const parallel = await ParallelSimdTraining.start(shared, rows, inputDim, targets, posWeight, hidden, 2, false);
