@@ -2,18 +2,21 @@
 // ForceAtlas2 in a web worker (a blob: URL, allowed by the panel's worker-src). Colours: classes
 // from our palette; unclassified nodes and edges in the theme's foreground.
 import Graph from 'graphology';
-import FA2Layout from 'graphology-layout-forceatlas2/worker';
 import forceAtlas2 from 'graphology-layout-forceatlas2';
 import Sigma from 'sigma';
 import type { ClassView, NeighbourhoodGraph } from '../src/protocol/webview';
 import { classColour } from './classPalette';
+import { initialPlacement } from './initialPlacement';
+import { layoutSettings, layoutSettledMark, ProgressiveLayout, type LayoutBudget } from './progressiveLayout';
 import { el, replaceChildren } from './dom';
 
 const synchronousLayoutLimit = 3000;
-const layoutSettings = (graph: Graph) => ({ ...forceAtlas2.inferSettings(graph), barnesHutOptimize: graph.order > 500 });
+export const graphRenderedMark = 'review:graph-rendered';
 const synchronousIterations = 150;
-const workerRounds = 150;
-const workerMaxMilliseconds = 30_000;
+/** "Lay out": long enough for a large graph to settle. */
+const relayoutBudget: LayoutBudget = { rounds: 150, maxMilliseconds: 30_000, applyEveryMilliseconds: 400 };
+/** The automatic refinement of a large graph: short, so that the panel is quiet again soon. */
+const refineBudget: LayoutBudget = { rounds: 150, maxMilliseconds: 4000, applyEveryMilliseconds: 1000 };
 
 /** WebGL is what sigma draws with; some VS Code installs (remote desktops, old drivers) lack it. */
 export function webglAvailable(): boolean {
@@ -49,8 +52,10 @@ export class GraphView {
   private readonly tooltip: HTMLElement;
   private readonly caption: HTMLElement;
   private renderer: Sigma | null = null;
-  private layout: FA2Layout | null = null;
+  private layout: ProgressiveLayout | null = null;
+  private layoutFrame = 0;
   private layoutTimer = 0;
+  private cameraMovedAt = -Infinity;
   private data: NeighbourhoodGraph | null = null;
   private classes: ClassView[] = [];
   private unavailable: string | null = null;
@@ -69,7 +74,7 @@ export class GraphView {
     );
     relayout.addEventListener('click', () => {
       const graph = this.renderer?.getGraph();
-      if (graph && !this.layout?.isRunning()) this.runWorkerLayout(graph);
+      if (graph) this.runWorkerLayout(graph);
     });
     this.element = el(
       'section',
@@ -111,6 +116,11 @@ export class GraphView {
     this.draw(graph);
   }
 
+  /** Call when the graph's container shows again after being hidden: sigma measures it anew. */
+  becameVisible(): void {
+    this.renderer?.resize(true).refresh();
+  }
+
   zoomToFit(): void {
     void this.renderer?.getCamera().reset({ duration: 200 });
   }
@@ -125,20 +135,29 @@ export class GraphView {
     replaceChildren(this.stage, el('div', { class: 'graph-unavailable', id: 'graph-unavailable', role: 'alert' }, message));
   }
 
-  private clear(): void {
+  private stopLayout(): void {
+    cancelAnimationFrame(this.layoutFrame);
     window.clearTimeout(this.layoutTimer);
     this.layout?.kill();
     this.layout = null;
+  }
+
+  private clear(): void {
+    this.stopLayout();
     this.renderer?.kill();
     this.renderer = null;
     this.shownKey = '';
     this.tooltip.hidden = true;
   }
 
-  private nodeColour(i: number, neutral: string): string {
+  /** The class node i is coloured with: pending, else label, else predicted (negative for none). */
+  private colourClass(i: number): number {
     const data = this.data as NeighbourhoodGraph;
-    const cls =
-      data.nodes.pending[i] >= 0 ? data.nodes.pending[i] : data.nodes.label[i] >= 0 ? data.nodes.label[i] : data.nodes.predicted[i];
+    return data.nodes.pending[i] >= 0 ? data.nodes.pending[i] : data.nodes.label[i] >= 0 ? data.nodes.label[i] : data.nodes.predicted[i];
+  }
+
+  private nodeColour(i: number, neutral: string): string {
+    const cls = this.colourClass(i);
     return cls >= 0 ? classColour(this.classes[cls]?.colour ?? cls) : neutral;
   }
 
@@ -151,85 +170,120 @@ export class GraphView {
   }
 
   private draw(data: NeighbourhoodGraph): void {
-    this.clear();
-    this.stage.replaceChildren();
+    this.stopLayout();
+    this.tooltip.hidden = true;
     const neutral = themeColour('--vscode-foreground', '--vscode-editor-foreground');
     const edgeColour = withAlpha(themeColour('--vscode-descriptionForeground', '--vscode-foreground'), 0.35);
     const graph = new Graph({ type: 'undirected', multi: false, allowSelfLoops: false });
     const count = data.nodes.ids.length;
-    // Members on an inner circle, neighbours on an outer one: a deterministic start for the layout.
+    // Members in a disc at the centre, neighbours in a disc per class around them: readable at
+    // once, and a start from which the force layout settles quickly.
+    const { positions } = initialPlacement(data, (i) => this.colourClass(i));
     for (let i = 0; i < count; i++) {
-      const isMember = i < data.memberCount;
-      const ring = isMember ? 1 : 2;
-      const slots = isMember ? data.memberCount : Math.max(1, count - data.memberCount);
-      const slot = isMember ? i : i - data.memberCount;
-      const angle = (2 * Math.PI * slot) / slots;
-      graph.addNode(String(i), { x: ring * Math.cos(angle), y: ring * Math.sin(angle), size: isMember ? 5 : 3, color: '' });
+      graph.addNode(String(i), {
+        x: positions[2 * i],
+        y: positions[2 * i + 1],
+        size: i < data.memberCount ? 5 : 3,
+        color: this.nodeColour(i, neutral),
+      });
     }
+    // Duplicate links checked on a numeric key: graphology's hasEdge on string keys is the slow part for 20,000 links.
+    const seen = new Set<number>();
     for (let e = 0; e < data.source.length; e++) {
-      const s = String(data.source[e]);
-      const t = String(data.target[e]);
-      if (s !== t && !graph.hasEdge(s, t)) graph.addEdge(s, t, { size: 1, color: edgeColour });
+      const [low, high] = data.source[e] < data.target[e] ? [data.source[e], data.target[e]] : [data.target[e], data.source[e]];
+      const key = low * count + high;
+      if (low === high || seen.has(key)) continue;
+      seen.add(key);
+      graph.addEdge(String(low), String(high), { size: 1, color: edgeColour });
     }
-    graph.forEachNode((node) => graph.setNodeAttribute(node, 'color', this.nodeColour(Number(node), neutral)));
+    const laidOutAtOnce = graph.order <= synchronousLayoutLimit;
+    // Before the first render, so that sigma processes the graph once.
+    if (laidOutAtOnce && graph.size > 0) forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
+    const hideEdgesOnMove = graph.size > 5000;
+    if (this.renderer) {
+      // One renderer for the panel's life: a new one per candidate would compile its WebGL
+      // programs again, which takes seconds where WebGL is drawn in software.
+      if (this.renderer.getSetting('hideEdgesOnMove') !== hideEdgesOnMove) this.renderer.setSetting('hideEdgesOnMove', hideEdgesOnMove);
+      this.renderer.getCamera().setState({ x: 0.5, y: 0.5, ratio: 1, angle: 0 });
+      this.renderer.setGraph(graph);
+    } else if (!this.createRenderer(graph, hideEdgesOnMove)) return;
+    // Sigma renders once in its constructor and in setGraph; bench/reviewPanelScale.ts reads this mark.
+    performance.mark(graphRenderedMark);
+    if (laidOutAtOnce || graph.size === 0)
+      performance.mark(layoutSettledMark, { detail: { rounds: laidOutAtOnce ? synchronousIterations : 0 } });
+    else this.refineLater(graph);
+  }
+
+  private createRenderer(graph: Graph, hideEdgesOnMove: boolean): boolean {
+    this.stage.replaceChildren();
+    let renderer: Sigma;
     try {
-      this.renderer = new Sigma(graph, this.stage, {
-        settings: { renderLabels: false, hideEdgesOnMove: graph.size > 5000, stagePadding: 16, itemSizesReference: 'screen' },
+      renderer = new Sigma(graph, this.stage, {
+        // allowInvalidContainer: the graph may be (re)drawn while another queue's tab hides it;
+        // becameVisible() sizes it once it shows again.
+        settings: { renderLabels: false, hideEdgesOnMove, stagePadding: 16, itemSizesReference: 'screen', allowInvalidContainer: true },
       });
     } catch (error) {
       this.showUnavailable(
         `The neighbourhood graph cannot be drawn here (${(error as Error).message}). Everything else works: the members are listed in the table.`,
       );
-      return;
+      return false;
     }
-    this.renderer.on('enterNode', ({ node }) => this.showTooltip(Number(node)));
-    this.renderer.on('leaveNode', () => {
+    this.renderer = renderer;
+    renderer.getCamera().on('updated', () => {
+      this.cameraMovedAt = performance.now();
+    });
+    renderer.on('enterNode', ({ node }) => this.showTooltip(Number(node)));
+    renderer.on('leaveNode', () => {
       this.tooltip.hidden = true;
     });
-    this.renderer.on('clickNode', ({ node }) => this.showTooltip(Number(node), true));
-    this.renderer.on('doubleClickNode', ({ node, event }) => {
+    renderer.on('clickNode', ({ node }) => this.showTooltip(Number(node), true));
+    renderer.on('doubleClickNode', ({ node, event }) => {
       event.preventSigmaDefault();
-      this.events.openNode(data.nodes.ids[Number(node)]);
+      const id = this.data?.nodes.ids[Number(node)];
+      if (id !== undefined) this.events.openNode(id);
     });
-    this.renderer.on('clickStage', () => {
+    renderer.on('clickStage', () => {
       this.tooltip.hidden = true;
     });
-    if (graph.size > 0) this.runLayout(graph);
+    return true;
   }
 
   /**
-   * Small graphs are laid out at once on this thread (deterministic, a few tens of milliseconds).
-   * Large ones keep their ring start until the curator asks ("Lay out"): redrawing thousands of
-   * nodes after every worker round would keep the panel busy for seconds.
+   * A graph too large to lay out at once is drawn from its placement, then refined by
+   * ForceAtlas2 in its worker for a bounded time, starting once the first frame is on screen;
+   * "Lay out" runs it longer.
    */
-  private runLayout(graph: Graph): void {
-    if (graph.order <= synchronousLayoutLimit)
-      forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
+  private refineLater(graph: Graph): void {
+    this.layoutFrame = requestAnimationFrame(() => {
+      this.layoutTimer = window.setTimeout(() => this.runWorkerLayout(graph, refineBudget, false), 0);
+    });
   }
 
-  /** ForceAtlas2 in its worker, stopped after a fixed number of rounds (counted by the position updates it makes) rather than after a time, so a busy machine still gets a layout. */
-  private runWorkerLayout(graph: Graph): void {
+  private runWorkerLayout(graph: Graph, budget: LayoutBudget = relayoutBudget, fitAfter = true): void {
     this.layout?.kill();
-    window.clearTimeout(this.layoutTimer);
-    const settings = layoutSettings(graph);
+    const layout = new ProgressiveLayout(graph, budget, {
+      isInteracting: () => this.interacting(),
+      settled: (rounds) => {
+        performance.mark(layoutSettledMark, { detail: { rounds } });
+        if (fitAfter) this.zoomToFit();
+      },
+    });
+    this.layout = layout;
     try {
-      const layout = new FA2Layout(graph, { settings });
-      this.layout = layout;
-      let rounds = 0;
-      const onRound = () => {
-        if (++rounds < workerRounds) return;
-        graph.off('eachNodeAttributesUpdated', onRound);
-        layout.stop();
-        this.zoomToFit();
-      };
-      graph.on('eachNodeAttributesUpdated', onRound);
       layout.start();
-      this.layoutTimer = window.setTimeout(() => layout.stop(), workerMaxMilliseconds);
     } catch (error) {
-      // No worker (e.g. a policy without worker-src): the circular start stays.
+      // No worker (e.g. a policy without worker-src): the placement stays.
       console.warn(`graph layout unavailable: ${(error as Error).message}`);
+      layout.kill();
       this.layout = null;
+      performance.mark(layoutSettledMark, { detail: { rounds: 0 } });
     }
+  }
+
+  /** The view moved in the last quarter second, or a button is held on it. */
+  private interacting(): boolean {
+    return performance.now() - this.cameraMovedAt < 250 || Boolean(this.renderer?.getMouseCaptor().isMouseDown);
   }
 
   /** Details of node i; with `pinned`, the box stays until the next click elsewhere. */

@@ -10,6 +10,10 @@ export interface ViewState {
   sortDescending?: boolean;
   threshold?: ThresholdSetting;
   helpOpen?: boolean;
+  /** The queue in view: candidates, doubtful labels or label next. */
+  queueTab?: 'candidates' | 'doubts' | 'labelNext';
+  /** The item in view in each second-look queue (node id). */
+  secondLookNode?: { doubts?: string; labelNext?: string };
 }
 
 interface WebviewApi {
@@ -42,7 +46,11 @@ export class HostBridge {
   onMessage(handler: (message: HostToWebviewMessage) => void): void {
     window.addEventListener('message', (event: MessageEvent) => {
       const data = event.data as { type?: unknown } | null;
-      if (data && typeof data === 'object' && typeof data.type === 'string') handler(data as HostToWebviewMessage);
+      if (data && typeof data === 'object' && typeof data.type === 'string') {
+        // Read by bench/reviewPanelScale.ts: opening a candidate is timed from here.
+        if (data.type === 'snapshot') performance.mark('review:snapshot-received');
+        handler(data as HostToWebviewMessage);
+      }
     });
   }
 

@@ -4,6 +4,7 @@ import type { ClassView, NeighbourhoodGraph } from '../src/protocol/webview';
 import { el, replaceChildren } from './dom';
 
 export const rowHeight = 24;
+export const tableReadyMark = 'review:table-ready';
 const overscanRows = 8;
 
 /** Rows [first, last) to draw for a viewport over rowCount rows of fixed height. */
@@ -148,6 +149,8 @@ export class MemberTable {
     this.candidateId = candidateId;
     this.refilter(sameCandidate ? undefined : (scroll ?? 0));
     this.selectionChanged();
+    // Read by bench/reviewPanelScale.ts: when the rows of a newly shown candidate are in the DOM.
+    performance.mark(tableReadyMark);
   }
 
   selectedIds(): string[] {

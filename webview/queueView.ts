@@ -20,14 +20,18 @@ export class QueueView {
         const button = el(
           'button',
           {
-            class: `queue-item status-${entry.status}${entry.id === currentId ? ' current' : ''}`,
+            class: `queue-item status-${entry.status}${entry.applied ? ' applied' : ''}${entry.id === currentId ? ' current' : ''}`,
             'data-candidate': entry.id,
             'aria-current': entry.id === currentId ? 'true' : undefined,
             title: entry.topTerms.join(', '),
           },
           el('span', { class: 'queue-size' }, String(entry.size)),
           el('span', { class: 'queue-id' }, entry.id),
-          el('span', { class: 'queue-terms' }, entry.status === 'open' ? entry.topTerms.join(' · ') : entry.status),
+          el(
+            'span',
+            { class: 'queue-terms' },
+            entry.status === 'open' ? entry.topTerms.join(' · ') : entry.applied ? `${entry.status} · applied` : entry.status,
+          ),
           entry.looksLikeDrift && entry.status === 'open' ? el('span', { class: 'queue-drift', title: 'looks like drift' }, '≈') : null,
           entry.skips > 0 && entry.status === 'open' ? el('span', { class: 'queue-skips', title: `skipped ${entry.skips}×` }, '↷') : null,
         );

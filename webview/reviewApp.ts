@@ -1,16 +1,21 @@
 // The review panel: lays out the parts, routes host messages to them, turns keys into actions,
 // and keeps the view state (candidate, scroll, search, sort, rejection setting) with the webview
 // API so that a hidden and restored panel comes back as it was.
-import type { HostToWebviewMessage, ReviewSnapshot } from '../src/protocol/webview';
+import type { HostToWebviewMessage, ReviewSnapshot, SecondLookQueueKind } from '../src/protocol/webview';
 import { DecisionPanel } from './decisionPanel';
 import { el, isTyping, replaceChildren } from './dom';
 import { GraphView } from './graphView';
 import type { HostBridge } from './hostBridge';
 import { MemberTable } from './memberTable';
 import { QueueView } from './queueView';
+import { queueTitles, SecondLookPanel } from './secondLookView';
 import { actionOfKey, shortcuts, type Action } from './shortcuts';
 import { SummaryView } from './summaryView';
 import { ThresholdControls } from './thresholdControls';
+
+type QueueTab = 'candidates' | SecondLookQueueKind;
+const queueTabs: QueueTab[] = ['candidates', 'doubts', 'labelNext'];
+const tabTitle = (tab: QueueTab) => (tab === 'candidates' ? 'Candidates' : queueTitles[tab]);
 
 export class ReviewApp {
   private snapshot: ReviewSnapshot | null = null;
@@ -24,6 +29,10 @@ export class ReviewApp {
   private readonly decisions: DecisionPanel;
   private readonly threshold: ThresholdControls;
   private restoredCandidate = false;
+  private readonly secondLook: SecondLookPanel;
+  private readonly tabs = el('nav', { class: 'queue-tabs', role: 'tablist', 'aria-label': 'Queues' });
+  private readonly body = el('main', { class: 'panel-body' });
+  private tab: QueueTab = 'candidates';
 
   constructor(
     private readonly root: HTMLElement,
@@ -49,6 +58,17 @@ export class ReviewApp {
       redo: () => this.busy(this.host.post({ type: 'redo' }), 'Redoing…'),
       selectedMembers: () => this.table.selectedIds(),
     });
+    this.secondLook = new SecondLookPanel(
+      {
+        decide: (decision) => this.busy(this.host.post({ type: 'decide', decision }), 'Recording decision…'),
+        load: () => this.loadSecondLook(),
+        undo: () => this.busy(this.host.post({ type: 'undo' }), 'Undoing…'),
+        redo: () => this.busy(this.host.post({ type: 'redo' }), 'Redoing…'),
+        currentChanged: (kind, node) =>
+          this.host.updateState({ secondLookNode: { ...this.host.state.secondLookNode, [kind]: node ?? undefined } }),
+      },
+      this.host.state.secondLookNode,
+    );
     this.threshold = new ThresholdControls(
       (setting) => this.host.post({ type: 'previewThreshold', setting }),
       (setting) => this.host.updateState({ threshold: setting }),
@@ -91,22 +111,26 @@ export class ReviewApp {
         el('span', { class: 'header-actions' }, exportButton, applyButton, helpButton),
       ),
       this.status,
-      el(
-        'main',
-        { class: 'panel-body' },
-        this.queue.element,
-        el(
-          'div',
-          { class: 'centre' },
-          this.summary.element,
-          this.decisions.element,
-          el('div', { class: 'views' }, this.graph.element, this.table.element),
-        ),
-      ),
+      this.tabs,
+      this.body,
       helpStrip,
       this.help,
     );
+    replaceChildren(
+      this.body,
+      this.queue.element,
+      el(
+        'div',
+        { class: 'centre' },
+        this.summary.element,
+        this.decisions.element,
+        el('div', { class: 'views' }, this.graph.element, this.table.element),
+      ),
+      this.secondLook.element,
+    );
     const saved = this.host.state;
+    // View state comes back from the webview API as it was stored; a tab this version lacks falls back.
+    this.switchTab(queueTabs.find((tab) => tab === saved.queueTab) ?? 'candidates');
     this.table.restoreView(saved);
     if (saved.helpOpen) this.help.hidden = false;
     document.addEventListener('keydown', (event) => this.onKey(event));
@@ -168,6 +192,58 @@ export class ReviewApp {
     this.threshold.setBaseline(snapshot.threshold, saved.threshold);
     this.root.querySelector('#apply-decisions')?.toggleAttribute('disabled', snapshot.pending.length === 0);
     this.host.updateState({ candidateId: current?.id });
+    // Newly computed queues (the command or the button) come into view.
+    const computed = snapshot.secondLook?.computedAt;
+    if (previous && computed && computed !== previous.secondLook?.computedAt && this.tab === 'candidates') this.switchTab('doubts');
+    else this.showSecondLook();
+  }
+
+  private showSecondLook(): void {
+    const snapshot = this.snapshot;
+    const view = snapshot?.secondLook ?? null;
+    const openCount = snapshot?.queue.filter((q) => q.status === 'open').length;
+    const counts: Record<QueueTab, number | undefined> = {
+      candidates: openCount,
+      doubts: view?.doubts.openCount,
+      labelNext: view?.labelNext.openCount,
+    };
+    replaceChildren(
+      this.tabs,
+      ...queueTabs.map((tab) => {
+        const selected = tab === this.tab;
+        const button = el(
+          'button',
+          {
+            class: `queue-tab${selected ? ' selected' : ''}`,
+            id: `tab-${tab}`,
+            role: 'tab',
+            'aria-selected': selected ? 'true' : 'false',
+            title: `${tabTitle(tab)} (${queueTabs.indexOf(tab) + 1})`,
+          },
+          tabTitle(tab),
+          counts[tab] === undefined ? null : el('span', { class: 'badge' }, String(counts[tab])),
+        );
+        button.addEventListener('click', () => this.switchTab(tab));
+        return button;
+      }),
+    );
+    if (this.tab !== 'candidates' && snapshot) this.secondLook.show(this.tab, view, snapshot.classes, snapshot.canUndo, snapshot.canRedo);
+  }
+
+  private switchTab(tab: QueueTab): void {
+    this.tab = tab;
+    this.body.setAttribute('data-tab', tab);
+    this.secondLook.element.hidden = tab === 'candidates';
+    if (tab === 'candidates') {
+      this.secondLook.closeForm();
+      this.graph.becameVisible();
+    }
+    this.host.updateState({ queueTab: tab });
+    this.showSecondLook();
+  }
+
+  private loadSecondLook(): void {
+    this.busy(this.host.post({ type: 'loadSecondLook' }), 'Checking labels and ranking what to label next… (progress in the notification)');
   }
 
   private select(candidateId: string): void {
@@ -205,6 +281,29 @@ export class ReviewApp {
     const action: Action | null = actionOfKey(event);
     if (!action) return;
     let handled = true;
+    const tabOfAction: Partial<Record<Action, QueueTab>> = {
+      showCandidates: 'candidates',
+      showDoubts: 'doubts',
+      showLabelNext: 'labelNext',
+    };
+    const tab = tabOfAction[action];
+    if (tab) {
+      this.switchTab(tab);
+      event.preventDefault();
+      return;
+    }
+    if (this.tab !== 'candidates') {
+      // In a second-look queue the candidate decisions are out of view and do not apply.
+      if (action === 'undo' || action === 'redo') handled = this.decisions.run(action);
+      else if (action === 'help') this.toggleHelp();
+      else if (action === 'close') {
+        if (!this.help.hidden) this.toggleHelp(false);
+        else if (this.secondLook.formOpen) this.secondLook.closeForm();
+        else handled = false;
+      } else handled = this.secondLook.run(action);
+      if (handled) event.preventDefault();
+      return;
+    }
     switch (action) {
       case 'next':
         this.step(1);

@@ -15,7 +15,13 @@ export type Action =
   | 'fit'
   | 'search'
   | 'help'
-  | 'close';
+  | 'close'
+  | 'keepLabel'
+  | 'acceptSuggestion'
+  | 'chooseClass'
+  | 'showCandidates'
+  | 'showDoubts'
+  | 'showLabelNext';
 
 export interface Shortcut {
   action: Action;
@@ -26,8 +32,8 @@ export interface Shortcut {
 }
 
 export const shortcuts: Shortcut[] = [
-  { action: 'next', keys: ['j'], label: 'J', description: 'next candidate' },
-  { action: 'previous', keys: ['k'], label: 'K', description: 'previous candidate' },
+  { action: 'next', keys: ['j'], label: 'J', description: 'next candidate or item' },
+  { action: 'previous', keys: ['k'], label: 'K', description: 'previous candidate or item' },
   { action: 'name', keys: ['n'], label: 'N', description: 'name as new class' },
   { action: 'mergeInto', keys: ['m'], label: 'M', description: 'merge into a class' },
   { action: 'mergeWith', keys: ['c'], label: 'C', description: 'merge with a candidate' },
@@ -35,6 +41,12 @@ export const shortcuts: Shortcut[] = [
   { action: 'move', keys: ['v'], label: 'V', description: 'move selected members' },
   { action: 'dismiss', keys: ['d'], label: 'D', description: 'dismiss as noise' },
   { action: 'skip', keys: ['l'], label: 'L', description: 'skip (later)' },
+  { action: 'keepLabel', keys: ['y'], label: 'Y', description: 'keep the label (doubtful labels)' },
+  { action: 'acceptSuggestion', keys: ['a'], label: 'A', description: 'give the suggested class' },
+  { action: 'chooseClass', keys: ['g'], label: 'G', description: 'give another class…' },
+  { action: 'showCandidates', keys: ['1'], label: '1', description: 'show candidates' },
+  { action: 'showDoubts', keys: ['2'], label: '2', description: 'show doubtful labels' },
+  { action: 'showLabelNext', keys: ['3'], label: '3', description: 'show label next' },
   { action: 'undo', keys: ['u'], label: 'U', description: 'undo' },
   { action: 'redo', keys: ['U'], label: 'Shift+U', description: 'redo' },
   { action: 'fit', keys: ['f'], label: 'F', description: 'zoom graph to fit' },

@@ -5,6 +5,7 @@ import { DecisionApplier } from './apply/applyDecisions';
 import { PreviewDocuments } from './apply/previewDocuments';
 import { exportDecisionsFile, registerReviewCommands } from './commands/reviewCommands';
 import { registerShowReportCommand } from './commands/showReport';
+import { registerSecondLookCommand } from './commands/secondLookCommand';
 import { registerSummaryCommand } from './commands/summary';
 import { registerValidateCommand } from './commands/validate';
 import { DatasetOverviews } from './datasetOverviews';
@@ -44,6 +45,7 @@ export function activate(context: vscode.ExtensionContext): void {
     registerShowReportCommand(services),
     registerRevalidateOnSave(services),
     ...registerReviewCommands({ ...services, overviews, tree, panels, applier }),
+    registerSecondLookCommand(panels),
   );
 }
 

@@ -40,6 +40,8 @@ export interface QueueEntry {
   topTerms: string[];
   meanNovelty: number;
   looksLikeDrift: boolean;
+  /** Closed by a decision that is applied (in the label files): done, not undoable. */
+  applied?: boolean;
 }
 
 /**
@@ -115,6 +117,52 @@ export interface ThresholdPreviewResult {
   ungroupedRejected: number;
 }
 
+// ---- second look: doubtful labels and what to label next (docs/second-look.md) ----
+
+export type SecondLookQueueKind = 'doubts' | 'labelNext';
+/** open: no pending decision on the node; kept: keep-label; changed: a pending decision gives it a class. */
+export type SecondLookItemStatus = 'open' | 'kept' | 'changed';
+
+export interface SecondLookItemView {
+  /** 1 = first in the engine's ranking. */
+  rank: number;
+  node: string;
+  /** Start of the node's text. */
+  text: string;
+  slice: string;
+  /** The curated label; null for an unlabelled node (label next). */
+  currentLabel: string | null;
+  /** Doubts: the other class with the most evidence; label next: the model's top class. A suggestion, not a decision. */
+  suggestedLabel: string;
+  /** Doubts: disagreement score in [0, 1]; label next: usefulness. */
+  score: number;
+  /** The evidence behind the score in a few words (margin, neighbours, outputs), as the engine reported it. */
+  evidence: string;
+  status: SecondLookItemStatus;
+  /** Class a pending decision gives the node (after merges of classes), null when none. */
+  pendingLabel: string | null;
+  /** The pending decision that settled the item, null while it is open. */
+  decisionId: string | null;
+}
+
+export interface SecondLookQueueView {
+  kind: SecondLookQueueKind;
+  slice: string;
+  /** One line: what was checked or ranked, e.g. "9 doubtful of 140 labels checked in 2024-Q1 … 2024-Q4". */
+  summary: string;
+  /** Why the engine could not build this queue (e.g. too few labels), null when it did. */
+  problem: string | null;
+  items: SecondLookItemView[];
+  openCount: number;
+}
+
+export interface SecondLookView {
+  /** When the queues were computed (ISO-8601). */
+  computedAt: string;
+  doubts: SecondLookQueueView;
+  labelNext: SecondLookQueueView;
+}
+
 export interface ReviewSnapshot {
   dataset: string;
   slice: string;
@@ -127,6 +175,8 @@ export interface ReviewSnapshot {
   canRedo: boolean;
   /** The run's own setting and its counts; null when the host has no scores to preview with. */
   threshold: ThresholdPreviewResult | null;
+  /** The second-look queues; absent until they are computed for this review. */
+  secondLook?: SecondLookView;
 }
 
 // ---- host → webview ----
@@ -213,6 +263,11 @@ export interface OpenNodeMessage {
   type: 'openNode';
   nodeId: string;
 }
+/** Compute (or recompute) the second-look queues for the run under review; answered with `done` or `error`. */
+export interface LoadSecondLookMessage {
+  type: 'loadSecondLook';
+  requestId: number;
+}
 
 export type WebviewToHostMessage =
   | ReadyMessage
@@ -223,7 +278,8 @@ export type WebviewToHostMessage =
   | PreviewThresholdMessage
   | ExportDecisionsMessage
   | ApplyDecisionsMessage
-  | OpenNodeMessage;
+  | OpenNodeMessage
+  | LoadSecondLookMessage;
 
 export type WebviewToHostType = WebviewToHostMessage['type'];
 
@@ -312,6 +368,7 @@ const messageGuards: { [K in WebviewToHostType]: (m: Record<string, unknown>) =>
   exportDecisions: (m) => isRequestId(m.requestId),
   applyDecisions: (m) => isRequestId(m.requestId),
   openNode: (m) => isName(m.nodeId),
+  loadSecondLook: (m) => isRequestId(m.requestId),
 };
 
 export const webviewToHostTypes = Object.keys(messageGuards) as WebviewToHostType[];

@@ -64,6 +64,8 @@ export interface OpenReviewParams {
    * null in Restricted Mode, where nothing is written.
    */
   persistPath: string | null;
+  /** Ids of decisions just applied to the label files: the restored session marks them applied. */
+  appliedIds?: string[];
 }
 
 export interface OpenReviewOutcome {
@@ -126,6 +128,22 @@ export interface ReportOutcome {
   };
 }
 
+export interface SecondLookParams {
+  /** The open review whose run (dataset, slice, settings) the queues are computed for. */
+  reviewId: number;
+  /** Cross-fitting folds for the doubtful labels (default 5). */
+  folds?: number;
+  /** How many unlabelled nodes to suggest (default 20). */
+  count?: number;
+}
+
+export interface SecondLookOutcome extends ReviewMessageOutcome {
+  /** One line for the curator, e.g. "9 doubtful labels of 140 checked; 20 suggestions of 61 unlabelled nodes". */
+  summary: string;
+  doubtful: number;
+  suggested: number;
+}
+
 export type CommitLabelsOutcome =
   { outcome: 'committed'; commit: string; root: string; files: string[] } | { outcome: 'nothing-to-commit' } | { outcome: 'no-repository' };
 
@@ -146,6 +164,8 @@ export interface RequestParams {
   commitLabels: { folder: string; message: string; initialise?: boolean };
   /** The quality-over-time report, built and rendered in the worker. */
   report: ReportParams;
+  /** Doubtful labels and label-next suggestions for an open review, attached to its session. */
+  secondLook: SecondLookParams;
 }
 
 export interface RequestResults {
@@ -162,6 +182,7 @@ export interface RequestResults {
   exportDecisions: string;
   commitLabels: CommitLabelsOutcome;
   report: ReportOutcome;
+  secondLook: SecondLookOutcome;
 }
 
 export type RequestType = keyof RequestParams;
@@ -277,6 +298,8 @@ const isReviewId = (value: unknown): boolean => isRecord(value) && isRequestId(v
 const isOptionalText = (value: unknown): boolean => value === undefined || typeof value === 'string';
 const isDecisionsFileShape = (value: unknown): boolean =>
   isRecord(value) && value.format === 'graph-curator-decisions' && Array.isArray(value.decisions) && typeof value.dataset === 'string';
+const isOptionalWholeIn = (value: unknown, low: number, high: number): boolean =>
+  value === undefined || (isWhole(value, low) && (value as number) <= high);
 const isStringList = (value: unknown): value is string[] => Array.isArray(value) && value.every((item) => typeof item === 'string');
 
 function isReportParams(value: unknown): boolean {
@@ -306,7 +329,10 @@ const paramGuards: { [K in RequestType]: Guard } = {
     isFolderParams(value) &&
     typeof (value as Record<string, unknown>).runId === 'string' &&
     /^[A-Za-z0-9._-]+$/.test((value as Record<string, unknown>).runId as string) &&
-    ((value as Record<string, unknown>).persistPath === null || typeof (value as Record<string, unknown>).persistPath === 'string'),
+    ((value as Record<string, unknown>).persistPath === null || typeof (value as Record<string, unknown>).persistPath === 'string') &&
+    ((value as Record<string, unknown>).appliedIds === undefined ||
+      (Array.isArray((value as Record<string, unknown>).appliedIds) &&
+        ((value as Record<string, unknown>).appliedIds as unknown[]).every((id) => typeof id === 'string'))),
   reviewMessage: (value) => isReviewId(value) && 'message' in (value as Record<string, unknown>),
   reviewDecisions: isReviewId,
   closeReview: isReviewId,
@@ -324,6 +350,10 @@ const paramGuards: { [K in RequestType]: Guard } = {
     ((value as Record<string, unknown>).message as string).trim().length > 0 &&
     ((value as Record<string, unknown>).initialise === undefined || typeof (value as Record<string, unknown>).initialise === 'boolean'),
   report: isReportParams,
+  secondLook: (value) =>
+    isReviewId(value) &&
+    isOptionalWholeIn((value as Record<string, unknown>).folds, 2, 50) &&
+    isOptionalWholeIn((value as Record<string, unknown>).count, 1, 1000),
 };
 
 const resultGuards: { [K in RequestType]: Guard } = {
@@ -359,6 +389,13 @@ const resultGuards: { [K in RequestType]: Guard } = {
     typeof value.summary.fromCache === 'boolean' &&
     typeof value.summary.createdAt === 'string' &&
     typeof value.summary.computeSeconds === 'number',
+  secondLook: (value) =>
+    isRecord(value) &&
+    Array.isArray(value.posts) &&
+    (value.session === null || isRecord(value.session)) &&
+    typeof value.summary === 'string' &&
+    isWhole(value.doubtful, 0) &&
+    isWhole(value.suggested, 0),
 };
 
 export const requestTypes = Object.keys(paramGuards) as RequestType[];

@@ -24,6 +24,11 @@ export interface ReviewHostActions {
   /** Runs the apply path on the decisions; resolves to the message shown. */
   applyDecisions(file: DecisionsFile): Promise<string>;
   openNode(nodeId: string): unknown;
+  /**
+   * Computes the second-look queues and puts them in the session (session.setSecondLook);
+   * resolves to the message shown. Absent where the queues are computed elsewhere.
+   */
+  loadSecondLook?(): Promise<string>;
   /** Refused messages and failures, for the host's log. */
   log?(message: string): void;
 }
@@ -57,6 +62,11 @@ export class ReviewController {
   /** Sends the whole state, e.g. after the host itself changed the session. */
   postSnapshot(): void {
     this.actions.post({ type: 'snapshot', snapshot: buildSnapshot(this.session, this.baseline) });
+  }
+
+  /** Persists and re-sends the session after the host changed it (e.g. new second-look queues). */
+  sessionChanged(): void {
+    this.changed();
   }
 
   private changed(): void {
@@ -110,6 +120,13 @@ export class ReviewController {
       case 'openNode':
         await this.actions.openNode(message.nodeId);
         return;
+      case 'loadSecondLook': {
+        if (!this.actions.loadSecondLook) throw new ReviewError('doubtful labels and suggestions are computed by the extension host');
+        const done = await this.actions.loadSecondLook();
+        this.changed();
+        this.actions.post({ type: 'done', requestId: message.requestId, message: done });
+        return;
+      }
     }
   }
 }

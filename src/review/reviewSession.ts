@@ -11,6 +11,7 @@ import type { CandidateStatus, DecisionRequest } from '../protocol/webview';
 import { decisionProblem } from './decisionShape';
 import { splitMembers, summariseMembers, type ReviewCandidate } from './reviewCandidate';
 import type { ReviewContext } from './reviewContext';
+import { cloneQueues, secondLookQueuesProblem, type SecondLookQueues } from './secondLookQueues';
 
 export const reviewSessionFormat = 'graph-curator-review-session';
 export const reviewSessionVersion = 1;
@@ -27,6 +28,10 @@ export interface ReviewSessionJson {
   /** Candidate in view before each decision, so that undo returns to it. */
   currentBefore: (string | null)[];
   redo: { decision: Decision; currentBefore: string | null }[];
+  /** The second-look queues last computed for this review (absent until computed). */
+  secondLook?: SecondLookQueues;
+  /** How many of the first decisions are applied (in the label files); absent when none. */
+  applied?: number;
 }
 
 export interface QueueItem {
@@ -66,6 +71,11 @@ export class ReviewSession {
   private pendingClasses: { name: string; description: string }[] = [];
   private mergedClasses = new Set<string>();
   private pendingLabels = new Map<number, string>();
+  private secondLook: SecondLookQueues | null = null;
+  /** The first `appliedCount` decisions are applied: kept for the state they leave, never undone or exported again. */
+  private appliedCount = 0;
+  /** True while applied decisions are replayed on a context that already holds their classes. */
+  private replayingApplied = false;
   private readonly indexOfId: Map<string, number>;
 
   constructor(
@@ -82,8 +92,10 @@ export class ReviewSession {
   static fromJSON(json: unknown, context: ReviewContext, initialCandidates: readonly ReviewCandidate[], clock?: () => Date): ReviewSession {
     const saved = checkSessionJson(json, context);
     const session = new ReviewSession(context, initialCandidates, clock);
+    const applied = saved.applied ?? 0;
     saved.decisions.forEach((decision, k) => {
       try {
+        session.replayingApplied = k < applied;
         session.apply(decision);
       } catch (error) {
         throw new ReviewError(
@@ -93,7 +105,10 @@ export class ReviewSession {
       session.decisions.push(decision);
       session.currentBefore.push(saved.currentBefore[k] ?? null);
     });
+    session.replayingApplied = false;
+    session.appliedCount = applied;
     session.redoStack = saved.redo.map((r) => ({ decision: r.decision, currentBefore: r.currentBefore }));
+    if (saved.secondLook !== undefined) session.secondLook = cloneQueues(saved.secondLook);
     session.currentId =
       saved.currentCandidateId !== null && session.isOpen(saved.currentCandidateId)
         ? saved.currentCandidateId
@@ -112,6 +127,8 @@ export class ReviewSession {
       decisions: this.decisions.map(cloneDecision),
       currentBefore: [...this.currentBefore],
       redo: this.redoStack.map((r) => ({ decision: cloneDecision(r.decision), currentBefore: r.currentBefore })),
+      ...(this.secondLook ? { secondLook: cloneQueues(this.secondLook) } : {}),
+      ...(this.appliedCount > 0 ? { applied: this.appliedCount } : {}),
     };
   }
 
@@ -143,12 +160,30 @@ export class ReviewSession {
     return entry && { candidate: entry.candidate, status: entry.status, skips: entry.skips };
   }
 
+  /** Decisions not applied yet (the ones export and apply take). */
   pendingDecisions(): readonly Decision[] {
-    return this.decisions;
+    return this.decisions.slice(this.appliedCount);
+  }
+
+  /** Decisions already in the label files, in the order they were made. */
+  appliedDecisions(): readonly Decision[] {
+    return this.decisions.slice(0, this.appliedCount);
+  }
+
+  /** Whether an applied decision closed this candidate (named, merged, dismissed, split…). */
+  isApplied(candidateId: string): boolean {
+    if (this.entries.get(candidateId)?.status === 'open') return false;
+    return this.appliedDecisions().some((d) => decidedCandidateIds(d).includes(candidateId));
+  }
+
+  /** The pending decisions were applied: they stay (their candidates stay closed) but are no longer pending or undoable. */
+  markApplied(): void {
+    this.appliedCount = this.decisions.length;
+    this.redoStack = [];
   }
 
   get canUndo(): boolean {
-    return this.decisions.length > 0;
+    return this.decisions.length > this.appliedCount;
   }
 
   get canRedo(): boolean {
@@ -167,6 +202,23 @@ export class ReviewSession {
   /** Class a pending decision gives a node, if any. */
   pendingLabelOf(node: number): string | undefined {
     return this.pendingLabels.get(node);
+  }
+
+  /** Global index of a node id, undefined for an id the dataset lacks. */
+  nodeIndexOf(id: string): number | undefined {
+    return this.indexOfId.get(id);
+  }
+
+  /** Doubtful labels and label-next suggestions to go through; not part of the decision history. */
+  get secondLookQueues(): SecondLookQueues | null {
+    return this.secondLook;
+  }
+
+  /** Replaces the second-look queues (a new computation); the pending decisions stay as they are. */
+  setSecondLook(queues: SecondLookQueues | null): void {
+    const problem = queues === null ? null : secondLookQueuesProblem(queues);
+    if (problem) throw new ReviewError(`second-look queues ${problem}`);
+    this.secondLook = queues === null ? null : cloneQueues(queues);
   }
 
   // ---- navigation ----
@@ -199,6 +251,7 @@ export class ReviewSession {
   }
 
   undo(): Decision | null {
+    if (this.decisions.length <= this.appliedCount) return null;
     const decision = this.decisions.pop();
     if (!decision) return null;
     const before = this.currentBefore.pop() ?? null;
@@ -228,7 +281,7 @@ export class ReviewSession {
       settingsHash: this.context.settingsHash,
       slice: this.context.slice,
       baseHashes: { ...this.context.baseHashes },
-      decisions: this.decisions.map(cloneDecision),
+      decisions: this.pendingDecisions().map(cloneDecision),
     };
   }
 
@@ -353,10 +406,12 @@ export class ReviewSession {
     switch (decision.kind) {
       case 'name-new-class': {
         const entry = this.openEntry(decision.candidateId);
-        if (this.classExists(decision.className))
+        // An applied decision made the class: it is in the label files (and the context) now.
+        const madeByApplied = this.replayingApplied && this.context.classNames.includes(decision.className);
+        if (this.classExists(decision.className) && !madeByApplied)
           throw new ReviewError(`class "${decision.className}" exists already: merge into it instead`);
         this.checkSameMembers(entry, decision.members);
-        this.pendingClasses.push({ name: decision.className, description: decision.description });
+        if (!madeByApplied) this.pendingClasses.push({ name: decision.className, description: decision.description });
         this.labelNodes(entry.candidate.members, decision.className);
         entry.status = 'named';
         break;
@@ -374,7 +429,7 @@ export class ReviewSession {
         const isNew = !this.classExists(decision.className);
         if (isNew && decision.description === undefined)
           throw new ReviewError(`no class "${decision.className}": give a description to create it`);
-        if (!isNew && decision.description !== undefined)
+        if (!isNew && decision.description !== undefined && !this.replayingApplied)
           throw new ReviewError(`class "${decision.className}" exists already: leave the description empty to move into it`);
         if (!isNew) this.checkTargetClass(decision.className);
         if (isNew) this.pendingClasses.push({ name: decision.className, description: decision.description ?? '' });
@@ -430,9 +485,13 @@ export class ReviewSession {
         this.openEntry(decision.candidateId).skips++;
         if (current === decision.candidateId) this.currentId = this.following(openBefore, decision.candidateId);
         return;
-      case 'keep-label':
-        this.nodeOf(decision.node);
+      case 'keep-label': {
+        const given = this.pendingLabels.get(this.nodeOf(decision.node));
+        // Keeping a label a pending decision replaces would record two opposite intentions.
+        if (given !== undefined)
+          throw new ReviewError(`node "${decision.node}" is given "${given}" by a pending decision: undo that decision to keep its label`);
         return;
+      }
     }
     if (current !== null && !this.isOpen(current)) this.currentId = this.following(openBefore, current);
   }
@@ -474,6 +533,13 @@ export class ReviewSession {
   }
 }
 
+/** Candidates a decision closes or takes apart. */
+function decidedCandidateIds(decision: Decision): string[] {
+  if ('candidateIds' in decision) return decision.candidateIds;
+  if ('candidateId' in decision && decision.kind !== 'skip') return [decision.candidateId];
+  return [];
+}
+
 function cloneDecision(decision: Decision): Decision {
   return JSON.parse(JSON.stringify(decision)) as Decision;
 }
@@ -502,5 +568,11 @@ function checkSessionJson(json: unknown, context: ReviewContext): ReviewSessionJ
   });
   if (saved.currentCandidateId !== null && typeof saved.currentCandidateId !== 'string')
     throw fail('has a current candidate id that is not text');
+  if (saved.secondLook !== undefined) {
+    const problem = secondLookQueuesProblem(saved.secondLook);
+    if (problem) throw fail(`has damaged second-look queues: they ${problem}`);
+  }
+  if (saved.applied !== undefined && (!Number.isInteger(saved.applied) || saved.applied < 0 || saved.applied > saved.decisions.length))
+    throw fail(`says ${JSON.stringify(saved.applied)} decisions are applied, of ${saved.decisions.length}`);
   return saved as ReviewSessionJson;
 }

@@ -11,6 +11,7 @@ import {
 } from '../protocol/webview';
 import { neighbourhoodOf } from './neighbourhood';
 import type { ReviewSession } from './reviewSession';
+import { buildSecondLookView } from './secondLookView';
 
 const queueTermCount = 3;
 const round = (value: number, digits = 4) => Math.round(value * 10 ** digits) / 10 ** digits;
@@ -52,6 +53,7 @@ export function buildSnapshot(session: ReviewSession, threshold: ThresholdPrevie
     topTerms: candidate.topTerms.slice(0, queueTermCount).map((t) => t.term),
     meanNovelty: round(candidate.meanNovelty),
     looksLikeDrift: candidate.looksLikeDrift,
+    ...(session.isApplied(candidate.id) ? { applied: true } : {}),
   }));
   const pending: PendingDecisionView[] = session.pendingDecisions().map((d) => ({ id: d.id, kind: d.kind, summary: describeDecision(d) }));
   let current: CandidateView | null = null;
@@ -95,6 +97,7 @@ export function buildSnapshot(session: ReviewSession, threshold: ThresholdPrevie
       },
     };
   }
+  const secondLook = buildSecondLookView(session);
   return {
     dataset: context.dataset,
     slice: context.slice,
@@ -106,5 +109,6 @@ export function buildSnapshot(session: ReviewSession, threshold: ThresholdPrevie
     canUndo: session.canUndo,
     canRedo: session.canRedo,
     threshold,
+    ...(secondLook ? { secondLook } : {}),
   };
 }

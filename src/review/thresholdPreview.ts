@@ -10,6 +10,7 @@
 // the pipeline's signed margin (docMargin), refitted for each α on what the run fitted on.
 import type { CsrMatrix } from '../engine/graph/csr';
 import { localNodesOfSlice, rejectedAmong, thresholdsFor, type PrefixFit, type ThresholdFit } from '../engine/pipeline/modelOnPrefix';
+import type { PreviewFit } from '../engine/pipeline/thresholdFitFile';
 import type { NoveltyMethod, RunSettings } from '../engine/pipeline/runSettings';
 import { docMargin } from '../engine/scoring/docThresholds';
 import { smoothNovelty } from '../engine/scoring/smoothing';
@@ -122,8 +123,8 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
  */
 export function thresholdPreviewInputOf(
   dataset: Dataset,
-  fit: PrefixFit,
-  settings: RunSettings,
+  fit: PreviewFit,
+  settings: Pick<RunSettings, 'noveltyMethod' | 'smoothingRounds'>,
   candidateMembers: ArrayLike<number>[] = [],
 ): ThresholdPreviewInput {
   const classCount = fit.modelClasses.length;

@@ -29,6 +29,7 @@ describe('protocol/worker guards', () => {
       'reviewDecisions',
       'reviewMessage',
       'score',
+      'secondLook',
       'summary',
       'validate',
     ]);

@@ -142,12 +142,15 @@ export function scenarioCandidates(scenario: ReviewScenario): ReviewCandidate[] 
   return discoverScenario(scenario).candidates.map(fromDiscovery);
 }
 
-/** One very large candidate (for the virtualised table): all rejected nodes of a big unknown group. */
-export function largeScenario(memberCount: number): { scenario: ReviewScenario; candidates: ReviewCandidate[] } {
+/**
+ * One very large candidate (for the virtualised table): the first `memberCount` nodes of a big
+ * unknown group `groupScale` times its size (with 2, a candidate of 5,000 reaches the 20,000-link cap).
+ */
+export function largeScenario(memberCount: number, groupScale = 1): { scenario: ReviewScenario; candidates: ReviewCandidate[] } {
   const scenario = buildScenario(5, [
     { size: 300, className: 'blade-crack', words: ['blade', 'crack', 'leading', 'edge', 'erosion'] },
     { size: 300, className: 'gearbox-wear', words: ['gearbox', 'bearing', 'oil', 'vibration', 'wear'] },
-    { size: memberCount, words: ['icing', 'frost', 'sensor', 'anemometer', 'cold', 'heater', 'rime'] },
+    { size: memberCount * groupScale, words: ['icing', 'frost', 'sensor', 'anemometer', 'cold', 'heater', 'rime'] },
   ]);
-  return { scenario, candidates: [summariseMembers(scenario.context, 'c-large', scenario.groups[2])] };
+  return { scenario, candidates: [summariseMembers(scenario.context, 'c-large', scenario.groups[2].subarray(0, memberCount))] };
 }

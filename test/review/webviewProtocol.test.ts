@@ -29,6 +29,7 @@ const good: Record<string, unknown>[] = [
   { type: 'exportDecisions', requestId: 16 },
   { type: 'applyDecisions', requestId: 17 },
   { type: 'openNode', nodeId: 'n1' },
+  { type: 'loadSecondLook', requestId: 18 },
 ];
 
 const bad: unknown[] = [
@@ -77,6 +78,8 @@ const bad: unknown[] = [
   { type: 'applyDecisions', requestId: null },
   { type: 'openNode' },
   { type: 'openNode', nodeId: '' },
+  { type: 'loadSecondLook' },
+  { type: 'loadSecondLook', requestId: -2 },
 ];
 
 describe('protocol/webview guards and the review controller', () => {

@@ -77,6 +77,8 @@ export interface PanelOptions {
   previewThreshold?: (setting: ThresholdSetting) => ThresholdPreviewResult;
   baseline?: ThresholdPreviewResult | null;
   viewport?: { width: number; height: number };
+  /** What the host does on loadSecondLook: put queues into the session; returns the message shown. */
+  loadSecondLook?: (session: ReviewSession) => string;
 }
 
 export interface Panel {
@@ -130,7 +132,9 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
     {
       post: (message) => {
         sent.push(message);
-        void page.evaluate((m) => window.postMessage(m, '*'), message).catch(() => undefined);
+        // As a JSON string: Playwright rebuilds an object argument value by value in the page, which
+        // takes seconds for the snapshot of a candidate of thousands of members.
+        void page.evaluate((json) => window.postMessage(JSON.parse(json), '*'), JSON.stringify(message)).catch(() => undefined);
       },
       previewThreshold: options.previewThreshold,
       exportDecisions: (file) => {
@@ -139,6 +143,7 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
       },
       applyDecisions: (file) => Promise.resolve(`applied ${file.decisions.length} decisions`),
       openNode: (nodeId) => opened.push(nodeId),
+      ...(options.loadSecondLook ? { loadSecondLook: () => Promise.resolve(options.loadSecondLook!(session)) } : {}),
     },
     options.baseline ?? null,
   );

@@ -284,6 +284,40 @@ describe('webview/review panel (Chromium)', function () {
     assert.equal(ids.length, 10);
   });
 
+  it('opens a candidate of 5,000 members and 20,000 links: graph drawn and refined, table scrolls to the last member', async () => {
+    const { scenario: large, candidates } = largeScenario(5000, 2);
+    const p = await open({ context: large.context, candidates });
+    const page = p.page;
+    assert.equal(await page.locator('#candidate-size').textContent(), '5000 members');
+    assert.match(
+      (await page.locator('#graph-caption').textContent()) ?? '',
+      /^5000 members, \d+ neighbours, 20000 links \(first 20,000 of [\d,]+ links shown\)$/,
+    );
+    assert.equal(await page.locator('#graph-unavailable').count(), 0);
+    assert.ok((await page.locator('#graph-stage canvas').count()) > 0, 'sigma drew into the graph area');
+    // Too large to lay out at once: drawn from its placement, then ForceAtlas2 in its worker.
+    const rounds = async () =>
+      page.evaluate<number[]>(`performance.getEntriesByName('review:layout-settled').map((m) => m.detail?.rounds ?? -1)`);
+    const deadline = Date.now() + 60_000;
+    while ((await rounds()).length === 0 && Date.now() < deadline) await page.waitForTimeout(200);
+    const settled = await rounds();
+    assert.equal(settled.length, 1, 'the refinement stopped once');
+    assert.ok(settled[0] >= 1, `ForceAtlas2 ran in its worker (${settled[0]} rounds)`);
+    await page.locator('#member-viewport').evaluate((viewport) => {
+      viewport.scrollTop = viewport.scrollHeight;
+    });
+    await page.waitForFunction(
+      () => Number(document.querySelector('.member-rows .member-row:last-child')?.getAttribute('aria-rowindex')) === 5000,
+    );
+    const lastShown = await page.locator('.member-rows .member-row:last-child').getAttribute('data-node');
+    // Ties keep member order, so the last row is the least novel member that comes last.
+    const members = [...candidates[0].members];
+    const leastNovel = members.reduce((best, node) => (large.context.novelty[node] <= large.context.novelty[best] ? node : best));
+    const expectedLast = large.context.nodeIds[leastNovel];
+    assert.equal(lastShown, expectedLast, 'sorted by novelty, highest first: the least novel member is last');
+    assert.deepEqual(await p.violations(), []);
+  });
+
   it('says so when WebGL is missing, and the table still works', async () => {
     const p = await open({ withoutWebgl: true });
     const page = p.page;

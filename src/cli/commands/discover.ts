@@ -73,7 +73,7 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       const { scores, fit } = await scoreSlice(dataset, settings, slice, { progress, cancel: io.cancel });
       const runId = newRunId(settings, scores.sliceKey);
       candidates = await discoverForFit(dataset, fit, scores, settings, runId);
-      savedTo = (await saveRun(dataset, scores, settings, { runId, candidates })).folder;
+      savedTo = (await saveRun(dataset, scores, settings, { runId, candidates, previewFit: fit })).folder;
     }
     const text = JSON.stringify(candidates, null, 2) + '\n';
     if (out !== undefined) await writeFileAtomic(out, text);

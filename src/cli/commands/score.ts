@@ -40,7 +40,7 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     const runId = newRunId(settings, scores.sliceKey);
     progress?.report('discover', 0);
     const candidates = parsed.has('no-discover') ? undefined : await discoverForFit(dataset, fit, scores, settings, runId);
-    const { folder: runFolder, record } = await saveRun(dataset, scores, settings, { runId, candidates });
+    const { folder: runFolder, record } = await saveRun(dataset, scores, settings, { runId, candidates, previewFit: fit });
     const out = parsed.value('out');
     if (out !== undefined) await writeFileAtomic(out, formatScoresCsv(dataset, scores));
     if (parsed.has('quiet')) {

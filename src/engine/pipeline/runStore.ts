@@ -10,6 +10,7 @@ import { encodeNpy } from '../io/npy';
 import { settingsHash, type RunSettings } from './runSettings';
 import { rejectedCount, topOutputs, type SliceScores } from './sliceScores';
 import type { CandidatesFile } from './candidatesFile';
+import { thresholdFitFileName, writeThresholdFit, type PreviewFit } from './thresholdFitFile';
 
 export const RUNS_FOLDER = 'runs';
 
@@ -25,7 +26,7 @@ export interface RunRecord {
   counts: { scored: number; rejected: number; trainingNodes: number };
   rejectionRate: number;
   timings: Record<string, number>;
-  files: { scores: string; embeddings: string; candidates?: string };
+  files: { scores: string; embeddings: string; candidates?: string; thresholdFit?: string };
 }
 
 export function newRunId(settings: RunSettings, sliceKey: string, now = new Date()): string {
@@ -82,7 +83,7 @@ export async function saveRun(
   dataset: Dataset,
   scores: SliceScores,
   settings: RunSettings,
-  extra: { runId?: string; candidates?: CandidatesFile } = {},
+  extra: { runId?: string; candidates?: CandidatesFile; previewFit?: PreviewFit } = {},
 ): Promise<{ folder: string; record: RunRecord }> {
   const runId = extra.runId ?? newRunId(settings, scores.sliceKey);
   const root = runsFolder(dataset.folder);
@@ -97,6 +98,11 @@ export async function saveRun(
   if (extra.candidates) {
     record.files.candidates = 'candidates.json';
     await writeFileAtomic(path.join(folder, 'candidates.json'), JSON.stringify({ ...extra.candidates, runId }, null, 2) + '\n');
+  }
+  // What threshold previews need when the run is reopened without its fit in memory.
+  if (extra.previewFit) {
+    await writeThresholdFit(folder, runId, dataset, extra.previewFit, settings);
+    record.files.thresholdFit = thresholdFitFileName;
   }
   // run.json last: a run folder without it is incomplete and is ignored by readers.
   await writeFileAtomic(path.join(folder, 'run.json'), JSON.stringify(record, null, 2) + '\n');

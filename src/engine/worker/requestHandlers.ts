@@ -13,6 +13,7 @@ import { writeFileAtomic } from '../io/atomicWrite';
 import { ReviewRegistry } from './reviewRegistry';
 import { buildReportForWebview } from './reportRequest';
 import { scoreAndSave } from './scoreRequest';
+import { secondLookForReview } from './secondLookRequest';
 
 export interface RequestContext {
   progress: ProgressSink;
@@ -62,6 +63,8 @@ export function createRequestHandlers(reviews = new ReviewRegistry()): RequestHa
     commitLabels: ({ folder, message, initialise }) => commitLabels(folder, message, initialise),
 
     report: (params, context) => buildReportForWebview(params, context),
+
+    secondLook: (params, context) => secondLookForReview(reviews, params, context),
   };
 }
 

@@ -7,12 +7,15 @@ import * as path from 'node:path';
 import type { Dataset } from '../dataset/types';
 import { writeFileAtomic } from '../io/atomicWrite';
 import type { PrefixFit } from '../pipeline/modelOnPrefix';
+import type { RunRecord } from '../pipeline/runStore';
 import type { RunSettings } from '../pipeline/runSettings';
 import type { DecisionsFile } from '../decisions/types';
 import type { HostToWebviewMessage, ThresholdPreviewResult } from '../../protocol/webview';
 import type { OpenReviewOutcome, ReviewMessageOutcome, ReviewSessionJson } from '../../protocol/worker';
 import { ReviewController } from '../../review/reviewController';
+import { withAppliedMarked } from '../../review/appliedSession';
 import { ReviewSession } from '../../review/reviewSession';
+import type { SecondLookQueues } from '../../review/secondLookQueues';
 import {
   createThresholdPreviewer,
   thresholdPreviewInputOf,
@@ -20,6 +23,7 @@ import {
   type ThresholdPreviewer,
 } from '../../review/thresholdPreview';
 import { readRunForReview, type RunForReview } from './runForReview';
+import { savedPreviewerOf } from './savedPreview';
 
 /** The fit of the run scored last in this worker, kept for threshold previews. */
 export interface RememberedFit {
@@ -31,6 +35,9 @@ export interface RememberedFit {
 }
 
 interface OpenReview {
+  /** Dataset folder and run record of the reviewed run (second-look queues are computed for it). */
+  folder: string;
+  record: RunRecord;
   session: ReviewSession;
   controller: ReviewController;
   /** Posts collected while one message is handled. */
@@ -46,6 +53,7 @@ export interface OpenReviewRequest {
   runId: string;
   saved?: unknown;
   persistPath: string | null;
+  appliedIds?: string[];
 }
 
 export class ReviewRegistry {
@@ -70,9 +78,11 @@ export class ReviewRegistry {
     const dataset = remembered?.dataset ?? (await loadDataset(request.folder));
     const run = await readRunForReview(dataset, request.runId);
     const { session, restoredFrom, restoreProblem } = await restoreSession(run, request);
-    const previewer = remembered ? previewerOf(remembered, run) : null;
+    const previewer = remembered ? previewerOf(remembered, run) : await savedPreviewerOf(dataset, run);
     const baseline = previewer ? previewer(thresholdSettingOf(run.record.settings)) : baselineOf(run);
     const review: OpenReview = {
+      folder: request.folder,
+      record: run.record,
       session,
       outbox: [],
       changed: null,
@@ -97,6 +107,9 @@ export class ReviewRegistry {
     );
     const reviewId = this.nextId++;
     this.reviews.set(reviewId, review);
+    // Decisions just applied: the session on disk says so from now on.
+    if (request.appliedIds && request.persistPath && session.appliedDecisions().length > 0)
+      await writeSession(request.persistPath, session.toJSON());
     return {
       reviewId,
       restoredFrom,
@@ -110,10 +123,30 @@ export class ReviewRegistry {
 
   message(reviewId: number, message: unknown): Promise<ReviewMessageOutcome> {
     const review = this.get(reviewId);
+    return this.inTurn(review, () => review.controller.receive(message));
+  }
+
+  /** The dataset folder and run record of an open review. */
+  runOf(reviewId: number): { folder: string; record: RunRecord } {
+    const review = this.get(reviewId);
+    return { folder: review.folder, record: review.record };
+  }
+
+  /** Replaces the review's second-look queues, in turn with its messages; saved and posted like a decision. */
+  attachSecondLook(reviewId: number, queues: SecondLookQueues): Promise<ReviewMessageOutcome> {
+    const review = this.get(reviewId);
+    return this.inTurn(review, () => {
+      review.session.setSecondLook(queues);
+      review.controller.sessionChanged();
+    });
+  }
+
+  /** Runs `change` after the review's earlier messages, collecting its posts and writing the session it leaves. */
+  private inTurn(review: OpenReview, change: () => unknown): Promise<ReviewMessageOutcome> {
     const handled = review.queue.then(async (): Promise<ReviewMessageOutcome> => {
       review.outbox = [];
       review.changed = null;
-      await review.controller.receive(message);
+      await change();
       const outcome = { posts: review.outbox, session: review.changed };
       if (review.changed && review.persistPath) await writeSession(review.persistPath, review.changed);
       return outcome;
@@ -162,8 +195,9 @@ async function restoreSession(
   if (request.saved !== undefined && request.saved !== null) sources.push({ from: 'state', read: () => Promise.resolve(request.saved) });
   for (const source of sources) {
     try {
-      const json = await source.read();
-      if (json === undefined) continue;
+      const read = await source.read();
+      if (read === undefined) continue;
+      const json = request.appliedIds ? withAppliedMarked(read, request.appliedIds) : read;
       return { session: ReviewSession.fromJSON(json, run.context, run.candidates), restoredFrom: source.from };
     } catch (error) {
       problems.push((error as Error).message);

@@ -41,7 +41,7 @@ export async function scoreAndSave(
   // From here on the run is written whole: saveRun writes run.json last, so a run folder is either
   // complete or ignored by every reader.
   progress.report('save', 0);
-  const { folder: runFolder, record } = await saveRun(dataset, scores, params.settings, { runId, candidates });
+  const { folder: runFolder, record } = await saveRun(dataset, scores, params.settings, { runId, candidates, previewFit: fit });
   progress.report('save', 1);
   remember?.({ folder: dataset.folder, runId, dataset, fit, settings: params.settings });
   return {

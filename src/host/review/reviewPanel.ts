@@ -121,7 +121,7 @@ export class ReviewPanels implements vscode.Disposable {
     });
   }
 
-  private startRelay(target: ReviewTarget): void {
+  private startRelay(target: ReviewTarget, appliedIds?: string[]): void {
     const state = this.context.workspaceState;
     void state.update(reviewPanelStateKey, target);
     const trusted = vscode.workspace.isTrusted;
@@ -144,9 +144,19 @@ export class ReviewPanels implements vscode.Disposable {
         folder: target.folder,
         runId: target.runId,
         persistPath: trusted ? pendingDecisionsPath(target.folder, target.runId) : null,
+        ...(appliedIds?.length ? { appliedIds } : {}),
         saved: state.get<unknown>(sessionKey),
       },
     );
+  }
+
+  /** Computes the open panel's second-look queues (the panel shows the outcome); false when no panel is open. */
+  async loadSecondLook(): Promise<boolean> {
+    const relay = this.relay;
+    if (!relay) return false;
+    this.panel?.reveal(undefined, false);
+    await relay.receive({ type: 'loadSecondLook', requestId: 0 });
+    return true;
   }
 
   /** Applies the open panel's pending decisions; false when no panel is open or nothing is pending. */
@@ -161,7 +171,12 @@ export class ReviewPanels implements vscode.Disposable {
 
   private async applyFor(target: ReviewTarget, decisions: DecisionsFile): Promise<ApplyOutcome> {
     const outcome = await this.applier.run({ folder: target.folder, decisions, source: `review of run ${target.runId}` });
-    if (outcome.batch) this.afterApply(target, outcome);
+    if (outcome.batch)
+      this.afterApply(
+        target,
+        outcome,
+        decisions.decisions.map((d) => d.id),
+      );
     return outcome;
   }
 
@@ -175,6 +190,11 @@ export class ReviewPanels implements vscode.Disposable {
       message: (reviewId, message) => client.request('reviewMessage', { reviewId, message }),
       decisions: (reviewId) => client.request('reviewDecisions', { reviewId }),
       close: (reviewId) => client.request('closeReview', { reviewId }),
+      secondLook: async (reviewId) =>
+        await vscode.window.withProgress(
+          { location: vscode.ProgressLocation.Notification, title: 'Checking labels and ranking what to label next', cancellable: true },
+          (progress, token) => client.request('secondLook', { reviewId }, { progress, token }),
+        ),
     };
   }
 
@@ -185,11 +205,11 @@ export class ReviewPanels implements vscode.Disposable {
   }
 
   /**
-   * The applied decisions are in the label files now: the session is archived beside the run
-   * (applied-<batch>.json) and the review starts afresh on the new labels, so that a reload does
-   * not replay decisions that no longer fit (a new class exists now).
+   * The applied decisions are in the label files now: a copy of the session is kept beside the run
+   * (applied-<batch>.json), the saved session marks them applied, and the review reopens on the new
+   * labels with their candidates done (closed, not undoable) and the rest as they were.
    */
-  private afterApply(target: ReviewTarget, outcome: ApplyOutcome): void {
+  private afterApply(target: ReviewTarget, outcome: ApplyOutcome, appliedIds: string[] = []): void {
     void (async () => {
       const relay = this.relay;
       if (!relay || relay.folder !== target.folder || relay.runId !== target.runId) return;
@@ -197,10 +217,10 @@ export class ReviewPanels implements vscode.Disposable {
       await new Promise((resolve) => setTimeout(resolve, 0));
       await relay.dispose();
       const pending = pendingDecisionsPath(target.folder, target.runId);
-      await fs.rename(pending, path.join(path.dirname(pending), `applied-${outcome.batch}.json`)).catch(() => undefined);
+      await fs.copyFile(pending, path.join(path.dirname(pending), `applied-${outcome.batch}.json`)).catch(() => undefined);
       await this.context.workspaceState.update(reviewSessionStateKey(target.folder, target.runId), undefined);
       if (this.relay !== relay) return;
-      this.startRelay(target);
+      this.startRelay(target, appliedIds);
       await this.relay?.receive({ type: 'ready' });
     })();
   }

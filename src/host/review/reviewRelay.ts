@@ -10,13 +10,21 @@ import {
   type HostToWebviewMessage,
   type WebviewToHostMessage,
 } from '../../protocol/webview';
-import type { OpenReviewOutcome, OpenReviewParams, ReviewMessageOutcome, ReviewSessionJson } from '../../protocol/worker';
+import type {
+  OpenReviewOutcome,
+  OpenReviewParams,
+  ReviewMessageOutcome,
+  ReviewSessionJson,
+  SecondLookOutcome,
+} from '../../protocol/worker';
 
 export interface ReviewEngine {
   openReview(params: OpenReviewParams): Promise<OpenReviewOutcome>;
   message(reviewId: number, message: WebviewToHostMessage): Promise<ReviewMessageOutcome>;
   decisions(reviewId: number): Promise<DecisionsFile>;
   close(reviewId: number): Promise<unknown>;
+  /** Computes the doubtful labels and label-next suggestions of the review's run into its session (with progress and cancel). */
+  secondLook?(reviewId: number): Promise<SecondLookOutcome>;
 }
 
 export interface ReviewRelayHost {
@@ -30,7 +38,12 @@ export interface ReviewRelayHost {
 }
 
 /** Messages the host answers itself instead of passing them to the worker's session. */
-export const hostHandledTypes: ReadonlySet<WebviewToHostMessage['type']> = new Set(['exportDecisions', 'applyDecisions', 'openNode']);
+export const hostHandledTypes: ReadonlySet<WebviewToHostMessage['type']> = new Set([
+  'exportDecisions',
+  'applyDecisions',
+  'openNode',
+  'loadSecondLook',
+]);
 
 export class ReviewRelay {
   private opened: Promise<OpenReviewOutcome> | null = null;
@@ -132,6 +145,9 @@ export class ReviewRelay {
         this.host.post({ type: 'done', requestId: message.requestId, message: await this.host.applyDecisions(file) });
         return;
       }
+      case 'loadSecondLook':
+        this.host.post({ type: 'done', requestId: message.requestId, message: await this.secondLook() });
+        return;
       default:
         throw new Error(`"${message.type}" is not handled by the host`);
     }
@@ -144,6 +160,19 @@ export class ReviewRelay {
       this.host.saveSession(outcome.session);
     }
     for (const post of outcome.posts) this.host.post(post);
+  }
+
+  /** Computes the second-look queues into the session and sends the panel the new state; resolves to a summary line. */
+  private async secondLook(): Promise<string> {
+    const engine = this.engine;
+    if (!engine.secondLook) throw new Error('this review cannot compute doubtful labels and suggestions');
+    const outcome: SecondLookOutcome = await this.withReview((reviewId) => engine.secondLook!(reviewId));
+    if (outcome.session) {
+      this.latestSession = outcome.session;
+      this.host.saveSession(outcome.session);
+    }
+    for (const post of outcome.posts) this.host.post(post);
+    return outcome.summary;
   }
 
   /** The current pending decisions as a decisions file (for the Apply and Export commands). */
