@@ -1,4 +1,5 @@
 // Shows a dataset's validation problems in the Problems panel, each in the file it names.
+import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { LocatedProblem } from '../engine/dataset/types';
 import { problemPosition } from './problemLocation';
@@ -34,6 +35,12 @@ export class ValidationDiagnostics implements vscode.Disposable {
   clear(datasetFolder: string): void {
     for (const uri of this.filesByFolder.get(datasetFolder) ?? []) this.collection.delete(uri);
     this.filesByFolder.delete(datasetFolder);
+  }
+
+  /** Clears every dataset folder at or below `deletedPath` (a deleted folder or file). */
+  clearWithin(deletedPath: string): void {
+    const prefix = deletedPath.endsWith(path.sep) ? deletedPath : deletedPath + path.sep;
+    for (const folder of [...this.filesByFolder.keys()]) if (folder === deletedPath || folder.startsWith(prefix)) this.clear(folder);
   }
 
   dispose(): void {

@@ -1,6 +1,7 @@
 // Re-validates a dataset shortly after any file inside its folder is saved, so the Problems panel
 // follows the user's edits. Saves in quick succession are coalesced, and a newer validation
 // cancels an older one still running for the same folder.
+import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { validateDataset } from './commands/validate';
 import { datasetFolderOf } from './datasetLocator';
@@ -40,14 +41,20 @@ export function registerRevalidateOnSave(services: HostServices): vscode.Disposa
     );
   });
 
-  // A dataset folder that is deleted or renamed away takes its problems with it.
-  const manifests = vscode.workspace.createFileSystemWatcher('**/dataset.json', true, true, false);
-  const onDelete = manifests.onDidDelete((uri) => services.diagnostics.clear(vscode.Uri.joinPath(uri, '..').fsPath));
+  // A dataset folder that is deleted or renamed away takes its problems with it. Deleting a folder
+  // reports only the folder itself (VS Code coalesces the events of what was inside), so every
+  // deletion is matched against the folders that have problems shown.
+  const deletions = vscode.workspace.createFileSystemWatcher('**', true, true, false);
+  const onDelete = deletions.onDidDelete((uri) => {
+    if (uri.scheme !== 'file') return;
+    const deleted = uri.fsPath;
+    services.diagnostics.clearWithin(path.basename(deleted) === 'dataset.json' ? path.dirname(deleted) : deleted);
+  });
 
   return new vscode.Disposable(() => {
     onSave.dispose();
     onDelete.dispose();
-    manifests.dispose();
+    deletions.dispose();
     for (const timer of timers.values()) clearTimeout(timer);
     timers.clear();
     for (const cancellation of running.values()) cancellation.cancel();

@@ -13,6 +13,7 @@ import { probePackagedRuntime } from './harness/packagedRuntime';
 import { defaultVsixPath, demoDatasetFolder, logsDir, screenshotsDir } from './harness/paths';
 import { changedLabelIds, git, labelsById, logGrowth, runCandidates, snapshotLabelFiles } from './harness/labelChanges';
 import { currentCandidate, mergeIntoFirstClass, nameAsNewClass, pendingDecisionTexts, reviewFrame } from './harness/reviewPanel';
+import { currentSecondLookItem, decideByKey, queueCounts, showQueueByKey, waitForSecondLookQueues } from './harness/secondLook';
 import { StepRecorder } from './harness/steps';
 import { keepVscodeLogs, outputChannelText } from './harness/vscodeLogs';
 import {
@@ -27,6 +28,7 @@ import {
   paletteEntries,
   runCommand,
   statusBarCursor,
+  waitForNoProblemRows,
   waitForNotification,
   waitForProblemRows,
   waitForQuickPick,
@@ -38,6 +40,7 @@ const commandTitles = {
   summary: 'Graph Curator: Show Dataset Summary',
   score: 'Graph Curator: Score Slice…',
   openReview: 'Graph Curator: Open Review Panel',
+  secondLook: 'Graph Curator: Review Doubtful Labels and Suggestions',
   apply: 'Graph Curator: Apply Decisions…',
 };
 
@@ -52,6 +55,8 @@ const runTimeoutMs = Number(process.env.E2E_TIMEOUT_SECONDS ?? 1200) * 1000;
 const engineRequestTimeoutMs = 120_000;
 /** Scoring the newest demo slice with default settings: 30-90 s on a loaded 2-core machine. */
 const scoreTimeoutMs = 300_000;
+/** Both second-look reports of the demo run (the doubts cross-fit 5 models): generous on a loaded 2-core machine. */
+const secondLookTimeoutMs = 600_000;
 
 interface Options {
   vsixPath: string;
@@ -214,6 +219,8 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       await runCommand(page, 'View: Close All Editors');
       rmSync(brokenFolder, { recursive: true, force: true });
       await clearNotifications(page);
+      // The deleted folder's problems leave the Problems panel with it.
+      await waitForNoProblemRows(page, new RegExp(escapeRegExp(path.basename(brokenFolder))), 30_000);
     });
 
     const before = snapshotLabelFiles(workspace.datasetFolder);
@@ -256,7 +263,81 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       return target;
     });
 
-    await steps.step('apply-and-commit', engineRequestTimeoutMs * 2, async () => {
+    await steps.step('compute-second-look-queues', secondLookTimeoutMs + 30_000, async () => {
+      await clearNotifications(page);
+      await runCommand(page, commandTitles.secondLook);
+      const computed = await waitForSecondLookQueues(page, frame, secondLookTimeoutMs);
+      console.log(`       ${computed.summary}`);
+      console.log(`       progress seen: ${computed.progressSeen.slice(-3).join(' | ') || '(between polls)'}`);
+      // Queues computed while the candidates are in view bring the doubtful labels into view.
+      await frame.locator('#tab-doubts[aria-selected="true"]').waitFor({ state: 'attached', timeout: 10_000 });
+      const note = ((await frame.locator('#second-look-note').textContent()) ?? '').trim();
+      assert(note === 'Model suggestions are not decisions; you review every change.', `the second-look note reads "${note}"`);
+    });
+
+    const keptItem = await steps.step('keep-doubtful-label', 60_000, async () => {
+      await showQueueByKey(page, frame, 'doubts');
+      const counts = await queueCounts(frame);
+      const badge = ((await frame.locator('#tab-doubts .badge').textContent()) ?? '').trim();
+      console.log(`       doubtful labels: ${counts.items} listed, ${counts.open} open, tab badge ${badge}`);
+      assert(counts.open > 0, `the doubtful labels queue has no open item (${counts.items} listed)`);
+      assert(badge === String(counts.open), `the Doubtful labels tab counts ${badge} open, the list shows ${counts.open}`);
+      const item = await currentSecondLookItem(frame);
+      // The panel's label is the one labels.csv holds now; the model suggests another class.
+      const fileLabel = labelsById(before.labelLines).get(item.node);
+      assert(item.status === 'open', `the doubtful label in view, ${item.node}, is ${item.status}, expected open`);
+      assert(
+        item.currentLabel === fileLabel,
+        `the panel shows ${item.node} labelled "${item.currentLabel}", labels.csv has "${fileLabel}"`,
+      );
+      assert(
+        item.suggestedLabel !== '' && item.suggestedLabel !== item.currentLabel,
+        `${item.node} is doubted with suggestion "${item.suggestedLabel}"`,
+      );
+      const kept = await decideByKey(page, frame, 'y', item.node, 'kept');
+      console.log(`       kept ${kept.node} "${kept.currentLabel}" (suggested "${kept.suggestedLabel}"): ${kept.outcome}`);
+      const next = await currentSecondLookItem(frame);
+      assert(next.node !== item.node, `the panel still shows ${item.node} after keeping its label`);
+      return kept;
+    });
+
+    const labelNextItem = await steps.step('give-suggested-class', 60_000, async () => {
+      await showQueueByKey(page, frame, 'labelNext');
+      const keepShown = await frame.locator('#second-look-keep').isVisible();
+      assert(!keepShown, 'the Label next queue offers "Keep label" for unlabelled nodes');
+      const counts = await queueCounts(frame);
+      console.log(`       label next: ${counts.items} listed, ${counts.open} open`);
+      const item = await currentSecondLookItem(frame);
+      assert(item.status === 'open', `the suggestion in view, ${item.node}, is ${item.status}, expected open`);
+      assert(item.currentLabel === 'unlabelled', `the suggestion in view, ${item.node}, shows the label "${item.currentLabel}"`);
+      assert(!labelsById(before.labelLines).has(item.node), `${item.node} is suggested to label next but labels.csv labels it`);
+      const given = await decideByKey(page, frame, 'a', item.node, 'changed');
+      console.log(`       gave ${given.node} "${given.suggestedLabel}": ${given.outcome}`);
+      assert(given.outcome.startsWith(`→ ${given.suggestedLabel} (`), `${given.node} shows the outcome "${given.outcome}"`);
+      return given;
+    });
+
+    await steps.step('second-look-decisions-pending', 30_000, async () => {
+      const pending = await pendingDecisionTexts(frame);
+      console.log(`       pending: ${pending.join(' | ')}`);
+      const keptId = /\((d-\d+)\)/.exec(keptItem.outcome)?.[1];
+      const givenId = /\((d-\d+)\)/.exec(labelNextItem.outcome)?.[1];
+      assert(pending.length === 4, `${pending.length} decisions are pending, expected 4 (name, merge, keep, give)`);
+      assert(
+        pending.some((text) => text === `${keptId} keep the label of ${keptItem.node}`),
+        `no pending "${keptId} keep the label of ${keptItem.node}"`,
+      );
+      assert(
+        pending.some((text) => text === `${givenId} move 1 node to "${labelNextItem.suggestedLabel}"`),
+        `no pending "${givenId} move 1 node to "${labelNextItem.suggestedLabel}""`,
+      );
+      // Back on the candidates: the panel shows them again.
+      await frame.locator('#panel-title').click();
+      await page.keyboard.press('1');
+      await frame.locator('#second-look').waitFor({ state: 'hidden', timeout: 10_000 });
+    });
+
+    const applyDialog = await steps.step('apply-and-commit', engineRequestTimeoutMs * 2, async () => {
       await runCommand(page, commandTitles.apply);
       const dialog = await clickDialogButton(
         page,
@@ -270,6 +351,7 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       const applied = await waitForNotification(page, /^Applied \d+ label changes?/, engineRequestTimeoutMs);
       console.log(`       ${applied}`);
       assert(/Committed [0-9a-f]{12}/.test(applied), `the apply did not commit: "${applied}"`);
+      return dialog;
     });
 
     await steps.step('label-files-on-disk', 30_000, () => {
@@ -286,6 +368,7 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       for (const [ids, label] of [
         [named, newClassName],
         [merged, mergeTarget],
+        [[labelNextItem.node], labelNextItem.suggestedLabel],
       ] as const) {
         for (const id of ids) {
           assert(newLabels.get(id) === label, `node ${id} is labelled "${newLabels.get(id)}" after the apply, expected "${label}"`);
@@ -297,10 +380,30 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       const unchanged = [...expected].filter((id) => !changed.ids.has(id));
       assert(
         unexpected.length === 0,
-        `labels.csv changed on lines of nodes outside both candidates: ${unexpected.slice(0, 10).join(', ')}`,
+        `labels.csv changed on lines of nodes outside both candidates and the label-next node: ${unexpected.slice(0, 10).join(', ')}`,
       );
       assert(unchanged.length === 0, `labels.csv did not change for members: ${unchanged.slice(0, 10).join(', ')}`);
-      assert(expected.size > 0, 'the two decisions changed no label');
+      assert(expected.size > 0, 'the decisions changed no label');
+      // The kept label is untouched; the label-next node is one line added with the suggested class.
+      assert(
+        newLabels.get(keptItem.node) === keptItem.currentLabel && oldLabels.get(keptItem.node) === keptItem.currentLabel,
+        `the kept node ${keptItem.node} is labelled "${newLabels.get(keptItem.node)}" after the apply, expected "${keptItem.currentLabel}" as before`,
+      );
+      assert(
+        changed.added.includes(`${labelNextItem.node},${labelNextItem.suggestedLabel}`) &&
+          !changed.removed.some((line) => line.startsWith(`${labelNextItem.node},`)),
+        `labels.csv did not gain the line "${labelNextItem.node},${labelNextItem.suggestedLabel}"`,
+      );
+      // The dialog counts exactly the changed nodes and names the kept label as review-only.
+      const dialogCount = Number(/Apply (\d+) label changes?/.exec(applyDialog)?.[1]);
+      assert(
+        dialogCount === changed.ids.size,
+        `the apply dialog announced ${dialogCount} label changes; labels.csv changed for ${changed.ids.size}`,
+      );
+      assert(
+        /review-only, no label change: 1 keep-label/.test(applyDialog),
+        `the apply dialog does not count the kept label as review-only: ${applyDialog.slice(0, 400)}`,
+      );
       console.log(`       labels.csv: ${changed.removed.length} lines removed, ${changed.added.length} added, ${changed.ids.size} nodes`);
 
       const growth = logGrowth(before.logText, after.logText);
@@ -309,6 +412,19 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
         growth.nodeLines.length === changed.ids.size && [...changed.ids].every((id) => loggedNodes.has(id)),
         `label-log.jsonl gained ${growth.nodeLines.length} node lines for ${loggedNodes.size} nodes; labels.csv changed for ${changed.ids.size}`,
       );
+      // The label-next node's log line carries the second-look note; a kept label changes nothing
+      // and is logged nowhere (docs/decisions-format.md: keep-label is review-only, no log lines).
+      const labelNextLines = growth.nodeLines.filter((line) => line.node === labelNextItem.node);
+      const givenId = /\((d-\d+)\)/.exec(labelNextItem.outcome)?.[1];
+      assert(
+        labelNextLines.length === 1 &&
+          labelNextLines[0].oldLabel === null &&
+          labelNextLines[0].newLabel === labelNextItem.suggestedLabel &&
+          labelNextLines[0].decisionId === givenId &&
+          /^second look: suggested to label next/.test(labelNextLines[0].reason ?? ''),
+        `label-log.jsonl logs ${labelNextItem.node} as ${JSON.stringify(labelNextLines)}; expected one line null → "${labelNextItem.suggestedLabel}" of ${givenId} with the second-look note`,
+      );
+      assert(!loggedNodes.has(keptItem.node), `label-log.jsonl logs a change of the kept node ${keptItem.node}`);
       const phases = growth.markerLines.map((marker) => marker.phase).join(',');
       const batches = new Set([...growth.markerLines, ...growth.nodeLines].map((line) => line.batch));
       assert(
@@ -336,6 +452,9 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       );
       const dirty = git(workspace.root, 'status', '--porcelain', '--', ...expectedFiles);
       assert(dirty === '', `the label files differ from the commit: ${dirty}`);
+      // The commit message counts every decision, the review-only keep-label among them.
+      const body = git(workspace.root, 'log', '-1', '--format=%b');
+      assert(/\(4 decisions\)/.test(body), `the commit message does not count the 4 decisions:\n${body}`);
       console.log(`       ${git(workspace.root, 'log', '-1', '--format=%h %s')}`);
       return Promise.resolve();
     });

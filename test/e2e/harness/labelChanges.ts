@@ -42,7 +42,7 @@ export function labelsById(lines: string[]): Map<string, string> {
 }
 
 export interface LogGrowth {
-  nodeLines: { node: string; newLabel: string | null; batch?: string }[];
+  nodeLines: { node: string; oldLabel?: string | null; newLabel: string | null; reason?: string; decisionId?: string; batch?: string }[];
   markerLines: { batch: string; phase: string }[];
 }
 

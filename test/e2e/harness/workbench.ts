@@ -112,17 +112,34 @@ export async function clearNotifications(page: Page): Promise<void> {
 
 /** Opens the Problems panel and returns its rows' texts once at least one row matches `expected`. */
 export async function waitForProblemRows(page: Page, expected: RegExp, timeoutMs: number): Promise<string[]> {
+  const rows = await problemRowsUntil(page, (texts) => texts.some((row) => expected.test(row)), timeoutMs);
+  if (rows.ok) return rows.texts;
+  throw new Error(`the Problems panel shows no row matching ${expected}; its rows: ${rows.texts.join(' | ') || '(none)'}`);
+}
+
+/** Waits until no row of the Problems panel matches `gone`. */
+export async function waitForNoProblemRows(page: Page, gone: RegExp, timeoutMs: number): Promise<void> {
+  const rows = await problemRowsUntil(page, (texts) => !texts.some((row) => gone.test(row)), timeoutMs);
+  if (!rows.ok) throw new Error(`the Problems panel still shows rows matching ${gone}: ${rows.texts.join(' | ')}`);
+}
+
+/** Focuses the Problems panel and polls its rows until `done` holds or the time is up. */
+async function problemRowsUntil(
+  page: Page,
+  done: (texts: string[]) => boolean,
+  timeoutMs: number,
+): Promise<{ ok: boolean; texts: string[] }> {
   await runCommand(page, 'View: Focus Problems (Errors, Warnings, Infos)');
   const panel = page.locator('.markers-panel');
   await panel.waitFor({ state: 'visible', timeout: 10_000 });
   const deadline = Date.now() + timeoutMs;
-  let rows: string[] = [];
+  let texts: string[] = [];
   while (Date.now() < deadline) {
-    rows = await rowTexts(panel.locator('.monaco-list-row'));
-    if (rows.some((row) => expected.test(row))) return rows;
+    texts = await rowTexts(panel.locator('.monaco-list-row'));
+    if (done(texts)) return { ok: true, texts };
     await page.waitForTimeout(250);
   }
-  throw new Error(`the Problems panel shows no row matching ${expected}; its rows: ${rows.join(' | ') || '(none)'}`);
+  return { ok: false, texts };
 }
 
 /** The cursor position the status bar shows for the active editor, e.g. "Ln 3, Col 1". */

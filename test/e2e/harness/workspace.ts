@@ -16,7 +16,10 @@ function git(cwd: string, ...args: string[]): string {
 
 export function createWorkspace(root: string, demoFolder: string): TestWorkspace {
   const datasetFolder = path.join(root, path.basename(demoFolder));
-  cpSync(demoFolder, datasetFolder, { recursive: true });
+  // The dataset as shipped: runs/ (git-ignored) may hold scoring runs someone made in the
+  // checkout, and the scenario expects its own scoring run to be the only one.
+  const runsFolder = path.join(demoFolder, 'runs');
+  cpSync(demoFolder, datasetFolder, { recursive: true, filter: (source) => source !== runsFolder });
   git(root, 'init', '--quiet', '--initial-branch=main');
   // Local identity: CI machines often have none, and the extension's own commits need one.
   git(root, 'config', 'user.name', 'Graph Curator end-to-end test');
