@@ -104,7 +104,7 @@ export async function runPipelineBenchmark(nodes: number, print: (line: string) 
   );
   const torch = runTorch(folder);
   print(
-    `  stage                 ours (s)   peak memory   ${torch ? 'PyTorch (s)   ratio' : '(PyTorch not installed: apt-get install -y python3-torch to compare)'}`,
+    `  stage                 ours (s)   peak memory   ${torch ? 'PyTorch (s)   ratio' : process.env.BENCH_SKIP_TORCH === '1' ? '(PyTorch run skipped: BENCH_SKIP_TORCH=1)' : '(PyTorch not installed: apt-get install -y python3-torch to compare)'}`,
   );
   const rows: [string, number, number | undefined][] = [
     ['load', figures.load.seconds, torch?.load],
