@@ -2,7 +2,7 @@
 // name or a choice. The panel only says what the curator chose; the host's session works out
 // the rest (members, ids, split parts).
 import type { ClassView, DecisionRequest, QueueEntry } from '../src/protocol/webview';
-import { el, replaceChildren } from './dom';
+import { el, onFormKeys, replaceChildren } from './dom';
 import { shortcutLabel, type Action } from './shortcuts';
 
 type Field = HTMLElement & { value: string };
@@ -61,15 +61,11 @@ export class DecisionPanel {
       add('undo', 'Undo', 'undo', () => this.events.undo(), true),
       add('redo', 'Redo', 'redo', () => this.events.redo(), true),
     );
-    this.form.addEventListener('keydown', (event) => {
-      if (event.key === 'Enter') {
-        event.preventDefault();
-        this.confirm();
-      } else if (event.key === 'Escape') {
-        event.preventDefault();
-        this.close();
-      }
-    });
+    onFormKeys(
+      this.form,
+      () => this.confirm(),
+      () => this.close(),
+    );
     this.element = el('section', { class: 'decisions', 'aria-label': 'Decide' }, row, this.form);
   }
 

@@ -40,6 +40,19 @@ export function replaceChildren(element: Element, ...children: Child[]): void {
 }
 
 /** True when a key press is typing into a field (so it is not a panel shortcut). */
+/** Enter confirms and Escape closes a small decision form. */
+export function onFormKeys(form: HTMLElement, confirm: () => void, close: () => void): void {
+  form.addEventListener('keydown', (event) => {
+    if (event.key === 'Enter') {
+      event.preventDefault();
+      confirm();
+    } else if (event.key === 'Escape') {
+      event.preventDefault();
+      close();
+    }
+  });
+}
+
 export function isTyping(event: Event): boolean {
   return event.composedPath().some((target) => {
     if (!(target instanceof HTMLElement)) return false;

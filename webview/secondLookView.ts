@@ -10,7 +10,7 @@ import type {
   SecondLookQueueView,
   SecondLookView,
 } from '../src/protocol/webview';
-import { el, replaceChildren } from './dom';
+import { el, onFormKeys, replaceChildren } from './dom';
 import { shortcutLabel, type Action } from './shortcuts';
 
 type Field = HTMLElement & { value: string };
@@ -73,15 +73,11 @@ export class SecondLookPanel {
       add('second-look-redo', 'Redo', null, () => this.events.redo(), true),
       add('second-look-load', 'Compute queues', null, () => this.events.load(), true),
     );
-    this.form.addEventListener('keydown', (event) => {
-      if (event.key === 'Enter') {
-        event.preventDefault();
-        this.confirm();
-      } else if (event.key === 'Escape') {
-        event.preventDefault();
-        this.closeForm();
-      }
-    });
+    onFormKeys(
+      this.form,
+      () => this.confirm(),
+      () => this.closeForm(),
+    );
     this.element = el(
       'section',
       { class: 'second-look', id: 'second-look', 'aria-labelledby': 'second-look-title', hidden: true },
