@@ -4,6 +4,7 @@
 import Graph from 'graphology';
 import forceAtlas2 from 'graphology-layout-forceatlas2';
 import Sigma from 'sigma';
+import { pathLine } from 'sigma/rendering';
 import type { ClassView, NeighbourhoodGraph } from '../src/protocol/webview';
 import { classColour } from './classPalette';
 import { initialPlacement } from './initialPlacement';
@@ -219,6 +220,10 @@ export class GraphView {
     let renderer: Sigma;
     try {
       renderer = new Sigma(graph, this.stage, {
+        // Straight links only (the graph has no self-loops): sigma's default path set includes
+        // the loop path, and every link then draws with the loop's 66 vertices instead of 4;
+        // where WebGL is drawn in software that made each full redraw take seconds.
+        primitives: { edges: { paths: [pathLine()] } },
         // allowInvalidContainer: the graph may be (re)drawn while another queue's tab hides it;
         // becameVisible() sizes it once it shows again.
         settings: { renderLabels: false, hideEdgesOnMove, stagePadding: 16, itemSizesReference: 'screen', allowInvalidContainer: true },
