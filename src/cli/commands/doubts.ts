@@ -1,15 +1,12 @@
 import type { CliIo } from '../io';
-import { EXIT } from '../io';
-import { parseArgs, type CommandSpec, type ParsedArgs } from '../args';
-import { reportError } from '../command';
-import { emitReport, RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs, wholeNumberFlag } from '../runSettingsFlags';
-import { stageProgress } from '../progressLine';
-import { loadDataset } from '../../engine/dataset/load';
+import type { CommandSpec, ParsedArgs } from '../args';
+import { wholeNumberFlag } from '../runSettingsFlags';
+import { runSliceReport, trainingSettingFlags } from '../sliceReport';
 import { defaultDoubtFolds, findDoubtfulLabels } from '../../engine/secondLook/doubts';
 import { formatDoubtsTable } from '../../engine/secondLook/formatReports';
 
 // Rejection and smoothing settings play no part here, so their flags are not offered.
-const USED_SETTING_FLAGS = ['slice', 'history', 'model', 'seed', 'epochs'];
+const USED_SETTING_FLAGS = ['slice', 'history', 'model', 'seed', 'epochs', 'batch-rows'];
 
 export const spec: CommandSpec = {
   name: 'doubts',
@@ -24,7 +21,7 @@ export const spec: CommandSpec = {
     { name: 'all', description: 'List every checked label, not only the doubtful ones.' },
     { name: 'out', value: 'FILE', description: 'Also write the report (JSON, see docs/second-look.md) to FILE.' },
     { name: 'json', description: 'Print the report as one JSON object instead of a table.' },
-    ...RUN_SETTING_FLAGS.filter((f) => USED_SETTING_FLAGS.includes(f.name)),
+    ...trainingSettingFlags(USED_SETTING_FLAGS),
   ],
   details:
     'Checks the curated labels of the history window of the slice (default the newest slice). A label is doubtful when its score is above 0.5 (the out-of-fold outputs and the labelled neighbours lean towards another class) or confident learning counts it off the diagonal of its confident joint.\nNothing is changed: resolve each doubt in the review panel or with a decisions file (move-members or keep-label).',
@@ -34,25 +31,19 @@ export function foldsFromArgs(parsed: ParsedArgs): number {
   return wholeNumberFlag(parsed, 'folds', 2, defaultDoubtFolds);
 }
 
-export async function run(args: string[], io: CliIo): Promise<number> {
-  let folder = '';
-  try {
-    const parsed = parseArgs(args, spec);
-    folder = parsed.positionals[0];
-    const settings = runSettingsFromArgs(parsed);
-    const folds = foldsFromArgs(parsed);
-    const dataset = await loadDataset(folder, { cancel: io.cancel });
-    const slice = sliceFromArgs(parsed, dataset);
-    const report = await findDoubtfulLabels(dataset, settings, {
-      slice,
-      folds,
-      keep: parsed.has('all') ? 'all' : 'doubtful',
-      progress: parsed.has('json') ? undefined : stageProgress(io),
-      cancel: io.cancel,
-    });
-    await emitReport(parsed, io, report, () => formatDoubtsTable(report));
-    return EXIT.ok;
-  } catch (error) {
-    return reportError(error, io, spec, folder);
-  }
+export function run(args: string[], io: CliIo): Promise<number> {
+  return runSliceReport(
+    args,
+    io,
+    spec,
+    ({ parsed, dataset, settings, slice, progress }) =>
+      findDoubtfulLabels(dataset, settings, {
+        slice,
+        folds: foldsFromArgs(parsed),
+        keep: parsed.has('all') ? 'all' : 'doubtful',
+        progress,
+        cancel: io.cancel,
+      }),
+    formatDoubtsTable,
+  );
 }

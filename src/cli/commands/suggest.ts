@@ -1,15 +1,12 @@
 import type { CliIo } from '../io';
-import { EXIT } from '../io';
-import { parseArgs, type CommandSpec, type ParsedArgs } from '../args';
-import { reportError } from '../command';
-import { emitReport, RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs, wholeNumberFlag } from '../runSettingsFlags';
-import { stageProgress } from '../progressLine';
-import { loadDataset } from '../../engine/dataset/load';
+import type { CommandSpec, ParsedArgs } from '../args';
+import { wholeNumberFlag } from '../runSettingsFlags';
+import { runSliceReport, trainingSettingFlags } from '../sliceReport';
 import { defaultSuggestionCount, suggestLabelNext } from '../../engine/secondLook/labelNext';
 import { formatSuggestionsTable } from '../../engine/secondLook/formatReports';
 
 // Rejection and smoothing settings play no part here, so their flags are not offered.
-const USED_SETTING_FLAGS = ['slice', 'history', 'model', 'seed', 'label-rate', 'epochs'];
+const USED_SETTING_FLAGS = ['slice', 'history', 'model', 'seed', 'label-rate', 'epochs', 'batch-rows'];
 
 export const spec: CommandSpec = {
   name: 'suggest',
@@ -19,7 +16,7 @@ export const spec: CommandSpec = {
     { name: 'count', value: 'N', description: `How many nodes to suggest (default ${defaultSuggestionCount}).` },
     { name: 'out', value: 'FILE', description: 'Also write the suggestions (JSON, see docs/second-look.md) to FILE.' },
     { name: 'json', description: 'Print the suggestions as one JSON object instead of a table.' },
-    ...RUN_SETTING_FLAGS.filter((f) => USED_SETTING_FLAGS.includes(f.name)),
+    ...trainingSettingFlags(USED_SETTING_FLAGS),
   ],
   details:
     'Trains on the history window of the slice (default the newest slice) and ranks its unlabelled nodes by usefulness = uncertainty × (1 + ln(1 + unlabelled neighbours)), where uncertainty is 1 minus the margin between the two highest normalised outputs.',
@@ -29,24 +26,13 @@ export function countFromArgs(parsed: ParsedArgs): number {
   return wholeNumberFlag(parsed, 'count', 1, defaultSuggestionCount);
 }
 
-export async function run(args: string[], io: CliIo): Promise<number> {
-  let folder = '';
-  try {
-    const parsed = parseArgs(args, spec);
-    folder = parsed.positionals[0];
-    const settings = runSettingsFromArgs(parsed);
-    const count = countFromArgs(parsed);
-    const dataset = await loadDataset(folder, { cancel: io.cancel });
-    const slice = sliceFromArgs(parsed, dataset);
-    const report = await suggestLabelNext(dataset, settings, {
-      slice,
-      count,
-      progress: parsed.has('json') ? undefined : stageProgress(io),
-      cancel: io.cancel,
-    });
-    await emitReport(parsed, io, report, () => formatSuggestionsTable(report));
-    return EXIT.ok;
-  } catch (error) {
-    return reportError(error, io, spec, folder);
-  }
+export function run(args: string[], io: CliIo): Promise<number> {
+  return runSliceReport(
+    args,
+    io,
+    spec,
+    ({ parsed, dataset, settings, slice, progress }) =>
+      suggestLabelNext(dataset, settings, { slice, count: countFromArgs(parsed), progress, cancel: io.cancel }),
+    formatSuggestionsTable,
+  );
 }
