@@ -1,12 +1,11 @@
+import { runOnDataset } from '../datasetCommand';
 import * as path from 'node:path';
 import type { CliIo } from '../io';
 import { EXIT } from '../io';
-import { parseArgs, UsageError, type CommandSpec } from '../args';
-import { reportError } from '../command';
-import { RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs } from '../runSettingsFlags';
+import { UsageError, type CommandSpec } from '../args';
+import { RUN_SETTING_FLAGS, sliceFromArgs } from '../runSettingsFlags';
 import { stageProgress } from '../progressLine';
 import { formatCandidateLines } from '../candidateLines';
-import { loadDataset } from '../../engine/dataset/load';
 import { scoreSlice } from '../../engine/pipeline/scoreSlice';
 import { discoverForFit, discoverInSpace, previousCandidates } from '../../engine/pipeline/discoverSlice';
 import { candidatesFileOf, type CandidatesFile } from '../../engine/pipeline/candidatesFile';
@@ -38,13 +37,8 @@ export const spec: CommandSpec = {
     'Without --scores, the slice is scored first as `score` does and the run is saved with its candidates.\nCandidate ids stay stable across runs: a candidate overlapping an earlier one (Jaccard ≥ 0.5) keeps its id and any decision made on it.',
 };
 
-export async function run(args: string[], io: CliIo): Promise<number> {
-  let folder = '';
-  try {
-    const parsed = parseArgs(args, spec);
-    folder = parsed.positionals[0];
-    const settings = runSettingsFromArgs(parsed);
-    const dataset = await loadDataset(folder, { cancel: io.cancel });
+export function run(args: string[], io: CliIo): Promise<number> {
+  return runOnDataset(args, io, spec, async ({ parsed, settings, dataset }) => {
     const slice = sliceFromArgs(parsed, dataset);
     const scoresPath = parsed.value('scores');
     const out = parsed.value('out');
@@ -84,7 +78,5 @@ export async function run(args: string[], io: CliIo): Promise<number> {
       if (savedTo) io.stdout(`run saved to ${savedTo}\n`);
     }
     return EXIT.ok;
-  } catch (error) {
-    return reportError(error, io, spec, folder);
-  }
+  });
 }

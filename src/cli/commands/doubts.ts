@@ -1,7 +1,7 @@
 import type { CliIo } from '../io';
 import type { CommandSpec, ParsedArgs } from '../args';
 import { wholeNumberFlag } from '../runSettingsFlags';
-import { runSliceReport, trainingSettingFlags } from '../sliceReport';
+import { runSliceReport, trainingSettingFlags } from '../datasetCommand';
 import { defaultDoubtFolds, findDoubtfulLabels } from '../../engine/secondLook/doubts';
 import { formatDoubtsTable } from '../../engine/secondLook/formatReports';
 

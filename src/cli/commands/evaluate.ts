@@ -1,10 +1,9 @@
+import { runOnDataset } from '../datasetCommand';
 import type { CliIo } from '../io';
 import { EXIT } from '../io';
-import { parseArgs, type CommandSpec } from '../args';
-import { reportError } from '../command';
-import { RUN_SETTING_FLAGS, runSettingsFromArgs } from '../runSettingsFlags';
+import type { CommandSpec } from '../args';
+import { RUN_SETTING_FLAGS } from '../runSettingsFlags';
 import { stageProgress } from '../progressLine';
-import { loadDataset } from '../../engine/dataset/load';
 import { evaluateSlices } from '../../engine/pipeline/evaluateSlices';
 import { readTruthFile } from '../../engine/pipeline/referenceLabels';
 import { formatEvaluation } from '../../engine/pipeline/formatEvaluation';
@@ -22,13 +21,8 @@ export const spec: CommandSpec = {
     'With --truth, every curated label trains and the truth file tests (training nodes are left out of the test). Without it, each slice is tested on its own labels by a model trained on earlier slices.\nWith --warm, the cold-start chain is fitted too and the report gives warm minus cold per slice.',
 };
 
-export async function run(args: string[], io: CliIo): Promise<number> {
-  let folder = '';
-  try {
-    const parsed = parseArgs(args, spec);
-    folder = parsed.positionals[0];
-    const settings = runSettingsFromArgs(parsed);
-    const dataset = await loadDataset(folder, { cancel: io.cancel });
+export function run(args: string[], io: CliIo): Promise<number> {
+  return runOnDataset(args, io, spec, async ({ parsed, settings, dataset }) => {
     const truthPath = parsed.value('truth');
     const reference = truthPath === undefined ? null : await readTruthFile(dataset, truthPath);
     const report = await evaluateSlices(dataset, settings, {
@@ -39,7 +33,5 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     });
     io.stdout(parsed.has('json') ? JSON.stringify(report, null, 2) + '\n' : formatEvaluation(report));
     return EXIT.ok;
-  } catch (error) {
-    return reportError(error, io, spec, folder);
-  }
+  });
 }

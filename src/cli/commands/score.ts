@@ -1,9 +1,8 @@
+import { runOnDataset } from '../datasetCommand';
 import type { CliIo } from '../io';
 import { EXIT } from '../io';
-import { parseArgs, type CommandSpec } from '../args';
-import { reportError } from '../command';
-import { RUN_SETTING_FLAGS, runSettingsFromArgs, sliceFromArgs } from '../runSettingsFlags';
-import { loadDataset } from '../../engine/dataset/load';
+import type { CommandSpec } from '../args';
+import { RUN_SETTING_FLAGS, sliceFromArgs } from '../runSettingsFlags';
 import { scoreSlice } from '../../engine/pipeline/scoreSlice';
 import { formatScoresCsv, newRunId, saveRun } from '../../engine/pipeline/runStore';
 import { discoverForFit } from '../../engine/pipeline/discoverSlice';
@@ -27,13 +26,8 @@ export const spec: CommandSpec = {
     'Writes runs/<run id>/ inside the dataset folder: run.json (settings, hashes, counts, timings), scores.csv (one row per node of the slice), embeddings.npy (hidden layer, same row order) and candidates.json (the rejected nodes grouped into candidate classes).\nModel suggestions are not decisions: a person reviews every label change.',
 };
 
-export async function run(args: string[], io: CliIo): Promise<number> {
-  let folder = '';
-  try {
-    const parsed = parseArgs(args, spec);
-    folder = parsed.positionals[0];
-    const settings = runSettingsFromArgs(parsed);
-    const dataset = await loadDataset(folder, { cancel: io.cancel });
+export function run(args: string[], io: CliIo): Promise<number> {
+  return runOnDataset(args, io, spec, async ({ parsed, settings, dataset }) => {
     const slice = sliceFromArgs(parsed, dataset);
     const progress = parsed.has('quiet') ? undefined : stageProgress(io);
     const { scores, fit } = await scoreSlice(dataset, settings, slice, { progress, cancel: io.cancel });
@@ -60,7 +54,5 @@ export async function run(args: string[], io: CliIo): Promise<number> {
     ];
     io.stdout(lines.join('\n') + '\n');
     return EXIT.ok;
-  } catch (error) {
-    return reportError(error, io, spec, folder);
-  }
+  });
 }

@@ -1,7 +1,7 @@
 import type { CliIo } from '../io';
 import type { CommandSpec, ParsedArgs } from '../args';
 import { wholeNumberFlag } from '../runSettingsFlags';
-import { runSliceReport, trainingSettingFlags } from '../sliceReport';
+import { runSliceReport, trainingSettingFlags } from '../datasetCommand';
 import { defaultSuggestionCount, suggestLabelNext } from '../../engine/secondLook/labelNext';
 import { formatSuggestionsTable } from '../../engine/secondLook/formatReports';
 
