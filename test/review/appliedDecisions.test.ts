@@ -156,4 +156,27 @@ describe('review/applied decisions', () => {
     assert.equal(onDisk.applied, 1, 'written back, so a later reload keeps the mark');
     assert.notEqual(reopened.session.currentCandidateId, candidateId, 'the dismissed candidate left the open queue');
   });
+
+  it('in the worker: a review reopened after an apply reads the labels on disk, not the dataset kept from scoring', async function () {
+    this.timeout(120_000);
+    const folder = (await smallDataset()).folder;
+    const registry = new ReviewRegistry();
+    const { runId } = await scoreAndSave(
+      { folder, settings: quickSettings },
+      { progress: silentProgress, cancel: new CancelFlag() },
+      (fit) => registry.rememberFit(fit),
+    );
+    const persistPath = path.join(await fs.mkdtemp(path.join(os.tmpdir(), 'applied-review-')), 'pending-decisions.json');
+    let loads = 0;
+    const load = (f: string) => {
+      loads++;
+      return loadDataset(f);
+    };
+    const opened = await registry.open({ folder, runId, persistPath }, load);
+    assert.equal(loads, 0, 'right after scoring the review uses the dataset the worker already holds');
+    assert.equal(opened.previewAvailable, true);
+    const reopened = await registry.open({ folder, runId, persistPath, appliedIds: [] }, load);
+    assert.equal(loads, 1, 'after an apply the dataset is read again');
+    assert.equal(reopened.previewAvailable, true, 'the remembered fit still serves the previews');
+  });
 });

@@ -75,7 +75,9 @@ export class ReviewRegistry {
       this.rememberedFit && this.rememberedFit.folder === path.resolve(request.folder) && this.rememberedFit.runId === request.runId
         ? this.rememberedFit
         : null;
-    const dataset = remembered?.dataset ?? (await loadDataset(request.folder));
+    // After an apply the labels on disk changed: read them again rather than the scoring-time copy
+    // (the remembered fit still serves the threshold previews: nodes and graph are unchanged).
+    const dataset = remembered && !request.appliedIds ? remembered.dataset : await loadDataset(request.folder);
     const run = await readRunForReview(dataset, request.runId);
     const { session, restoredFrom, restoreProblem } = await restoreSession(run, request);
     const previewer = remembered ? previewerOf(remembered, run) : await savedPreviewerOf(dataset, run);
