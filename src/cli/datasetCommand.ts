@@ -42,6 +42,14 @@ export function trainingSettingFlags(names: readonly string[]): CommandSpec['fla
   return RUN_SETTING_FLAGS.filter((flag) => names.includes(flag.name));
 }
 
+/** --out and --json of a report command; `what` names the report ("the report", "the suggestions"). */
+export function reportOutputFlags(what: string): CommandSpec['flags'] {
+  return [
+    { name: 'out', value: 'FILE', description: `Also write ${what} (JSON, see docs/second-look.md) to FILE.` },
+    { name: 'json', description: `Print ${what} as one JSON object instead of a table.` },
+  ];
+}
+
 export interface SliceReportRequest extends DatasetCommandContext {
   slice: number;
   /** Stage progress on stderr, or undefined with --json. */

@@ -17,6 +17,7 @@ import type { EvaluationReport } from '../../src/engine/pipeline/evaluateSlices'
 import { reportCacheFolder, reportCacheKey } from '../../src/engine/report/reportCache';
 import type { QualityReport } from '../../src/engine/report/reportTypes';
 import { metricCell } from './reportFixture';
+import { chromiumFlags } from '../chromiumFlags';
 
 const SCREENSHOTS = path.resolve(__dirname, '../../test-output/report-screenshots');
 const CHROMIUM = '/usr/bin/chromium';
@@ -154,15 +155,7 @@ describe('graph-curator report', function () {
     await fs.writeFile(htmlFile, html);
     const browser = await chromium.launch({
       executablePath: CHROMIUM,
-      args: [
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-        '--no-first-run',
-        '--disable-quic',
-      ],
+      args: [...chromiumFlags],
     });
     try {
       const backgrounds: string[] = [];

@@ -14,23 +14,13 @@ import type { ReviewContext } from '../../src/review/reviewContext';
 import { ReviewSession } from '../../src/review/reviewSession';
 import { reviewPanelHtml } from '../../src/review/webviewHtml';
 import type { Theme } from './themes';
+import { chromiumFlags } from '../chromiumFlags';
 
 export const chromiumPath = '/usr/bin/chromium';
 export const projectRoot = path.resolve(__dirname, '..', '..');
 export const screenshotFolder = path.join(projectRoot, 'test-output', 'webview-screenshots');
 const bundleFolder = path.join(projectRoot, 'test-output', 'webview-test');
 const origin = 'https://webview.test';
-
-/** Flags that work on these machines (FIELD-NOTES.md); WebGL still works (software) with --disable-gpu. */
-const chromiumFlags = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--no-first-run',
-  '--disable-quic',
-];
 
 export function requireChromium(): void {
   if (!existsSync(chromiumPath)) {
@@ -62,7 +52,7 @@ export async function webviewBundle(): Promise<string> {
 
 export async function launchBrowser(): Promise<Browser> {
   requireChromium();
-  return chromium.launch({ executablePath: chromiumPath, args: chromiumFlags });
+  return chromium.launch({ executablePath: chromiumPath, args: [...chromiumFlags] });
 }
 
 export interface PanelOptions {

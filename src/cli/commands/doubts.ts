@@ -1,7 +1,7 @@
 import type { CliIo } from '../io';
 import type { CommandSpec, ParsedArgs } from '../args';
 import { wholeNumberFlag } from '../runSettingsFlags';
-import { runSliceReport, trainingSettingFlags } from '../datasetCommand';
+import { reportOutputFlags, runSliceReport, trainingSettingFlags } from '../datasetCommand';
 import { defaultDoubtFolds, findDoubtfulLabels } from '../../engine/secondLook/doubts';
 import { formatDoubtsTable } from '../../engine/secondLook/formatReports';
 
@@ -19,8 +19,7 @@ export const spec: CommandSpec = {
       description: `Cross-fitting folds: each label is judged by a model trained on the other folds (default ${defaultDoubtFolds}).`,
     },
     { name: 'all', description: 'List every checked label, not only the doubtful ones.' },
-    { name: 'out', value: 'FILE', description: 'Also write the report (JSON, see docs/second-look.md) to FILE.' },
-    { name: 'json', description: 'Print the report as one JSON object instead of a table.' },
+    ...reportOutputFlags('the report'),
     ...trainingSettingFlags(USED_SETTING_FLAGS),
   ],
   details:

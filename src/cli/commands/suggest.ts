@@ -1,7 +1,7 @@
 import type { CliIo } from '../io';
 import type { CommandSpec, ParsedArgs } from '../args';
 import { wholeNumberFlag } from '../runSettingsFlags';
-import { runSliceReport, trainingSettingFlags } from '../datasetCommand';
+import { reportOutputFlags, runSliceReport, trainingSettingFlags } from '../datasetCommand';
 import { defaultSuggestionCount, suggestLabelNext } from '../../engine/secondLook/labelNext';
 import { formatSuggestionsTable } from '../../engine/secondLook/formatReports';
 
@@ -14,8 +14,7 @@ export const spec: CommandSpec = {
   positionals: [{ name: 'folder' }],
   flags: [
     { name: 'count', value: 'N', description: `How many nodes to suggest (default ${defaultSuggestionCount}).` },
-    { name: 'out', value: 'FILE', description: 'Also write the suggestions (JSON, see docs/second-look.md) to FILE.' },
-    { name: 'json', description: 'Print the suggestions as one JSON object instead of a table.' },
+    ...reportOutputFlags('the suggestions'),
     ...trainingSettingFlags(USED_SETTING_FLAGS),
   ],
   details:

@@ -90,11 +90,14 @@ export async function trainDenseNetwork(
       lossHistory.push(loss);
       progress.report('train', (epoch + 1) / settings.epochs);
     };
-    /** Rescales a gradient vector (loss first) computed at the all-rows loss scale to the batch's mean. */
-    const toBatchMean = (vector: Float32Array, batchRowCount: number) => {
-      if (batchRowCount === rowCount) return;
+    /**
+     * Rescales gradients computed at the all-rows loss scale (simdShard.ts) to the mean over the
+     * batch's rows, in place; returns the factor (1 for a full batch).
+     */
+    const toBatchMean = (parts: Float32Array[], batchRowCount: number): number => {
       const factor = rowCount / batchRowCount;
-      for (let i = 0; i < vector.length; i++) vector[i] *= factor;
+      if (factor !== 1) for (const part of parts) for (let i = 0; i < part.length; i++) part[i] *= factor;
+      return factor;
     };
     if (parallel ?? rowCount * inputDim >= parallelTrainingThreshold) {
       const sharedInputs = gatherRows(features, inputDim, rows, sharedFloats(rowCount * inputDim));
@@ -135,7 +138,7 @@ export async function trainDenseNetwork(
           // Draw the next step's mask while the workers compute this one.
           if (withDropout && epoch + 1 < settings.epochs) drawMask(epoch + 1, training.masks[1 - (epoch % 2)]);
           const summed = await running;
-          toBatchMean(summed, stepRows(epoch).count);
+          toBatchMean([summed], stepRows(epoch).count);
           const { loss, gradients } = splitGradients(summed, inputDim, settings.hiddenUnits, classCount);
           optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
           report(epoch, loss);
@@ -158,10 +161,9 @@ export async function trainDenseNetwork(
           if (mask) dropoutMask((to - from) * h, settings.dropout, random, mask.subarray(from * h, to * h));
           const { loss, gradients } =
             step instanceof SimdDenseTrainingStep ? step.run(parameters, mask, from, to) : step.run(parameters, mask);
-          const factor = rowCount / (to - from);
-          for (const g of [gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias])
-            if (factor !== 1) for (let i = 0; i < g.length; i++) g[i] *= factor;
-          optimiser.update([gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias]);
+          const parts = [gradients.hiddenKernel, gradients.hiddenBias, gradients.outputKernel, gradients.outputBias];
+          const factor = toBatchMean(parts, to - from);
+          optimiser.update(parts);
           report(epoch, loss * factor);
           await yieldToEventLoop();
         }

@@ -2,7 +2,8 @@
 // the same interface as DenseTrainingStep and predictDense (models/denseStep.ts, on tfjs). The
 // step is one shard (simdShard.ts) holding every training row; its rows, activations and
 // gradients stay resident in the shard's memory for the whole training.
-import type { DenseParameters, LossAndGradients } from '../models/denseStep';
+import { gradientLength } from '../models/denseShard';
+import { flattenParameters, splitGradients, type DenseParameters, type LossAndGradients } from '../models/denseStep';
 import { throwIfCancelled, type CancelSignal } from '../util/progress';
 import { kernelModule, matMulListBytes, withWorkspace } from './kernels';
 import { createSimdShard, runSimdShard, type SimdShard } from './simdShard';
@@ -32,7 +33,7 @@ export class SimdDenseTrainingStep {
       throw new Error(`training targets hold ${targets.length} values, need ${rowCount} × ${posWeight.length}`);
     }
     this.shard = createSimdShard(module, inputs, rowCount, inputDim, targets, posWeight, hiddenUnits, lossScale);
-    this.flat = new Float32Array(inputDim * hiddenUnits + hiddenUnits + hiddenUnits * posWeight.length + posWeight.length);
+    this.flat = new Float32Array(gradientLength(inputDim, hiddenUnits, posWeight.length) - 1);
   }
 
   /**
@@ -40,22 +41,10 @@ export class SimdDenseTrainingStep {
    * row range, only those rows count, at the all-rows loss scale (the caller rescales).
    */
   run(parameters: DenseParameters, mask: Float32Array | null, rowFrom = 0, rowTo = this.rowCount): LossAndGradients {
-    const parts = [parameters.hiddenKernel, parameters.hiddenBias, parameters.outputKernel, parameters.outputBias];
-    let at = 0;
-    for (const part of parts) {
-      this.flat.set(part, at);
-      at += part.length;
-    }
+    flattenParameters(parameters, this.flat);
     const out = new Float32Array(1 + this.flat.length);
     runSimdShard(this.shard, this.flat, mask, out, rowFrom, rowTo);
-    const gradients = parts.map((part, i) => {
-      const start = 1 + parts.slice(0, i).reduce((sum, p) => sum + p.length, 0);
-      return out.subarray(start, start + part.length);
-    });
-    return {
-      loss: out[0],
-      gradients: { hiddenKernel: gradients[0], hiddenBias: gradients[1], outputKernel: gradients[2], outputBias: gradients[3] },
-    };
+    return splitGradients(out, this.inputDim, this.hiddenUnits, this.shard.classCount);
   }
 
   /** Nothing to release by hand (the memory goes with the object); kept for DenseTrainingStep's interface. */

@@ -2,20 +2,10 @@
 // notifications, the Problems panel. Every wait is bounded and fails with what was on screen.
 import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
 import { chromiumPath } from './paths';
-
-// Flags that work for Debian's Chromium on these machines (headless, root, no GPU, no network).
-const chromiumFlags = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--no-first-run',
-  '--disable-quic',
-];
+import { chromiumFlags } from '../../chromiumFlags';
 
 export async function launchBrowser(): Promise<Browser> {
-  return chromium.launch({ executablePath: chromiumPath, args: chromiumFlags, headless: true, timeout: 60_000 });
+  return chromium.launch({ executablePath: chromiumPath, args: [...chromiumFlags], headless: true, timeout: 60_000 });
 }
 
 export async function openWorkbench(browser: Browser, url: string, folder: string): Promise<Page> {
