@@ -1,14 +1,16 @@
-// The candidate's neighbourhood drawn with sigma over a graphology graph, laid out by
-// ForceAtlas2 in a web worker (a blob: URL, allowed by the panel's worker-src). Colours: classes
-// from our palette; unclassified nodes and edges in the theme's foreground.
+// The candidate's neighbourhood: a GraphScene (typed arrays) drawn by our scene layer inside a sigma
+// renderer, which gives the camera, pan and zoom; laid out by ForceAtlas2, in a web worker for large
+// neighbourhoods (a blob: URL, allowed by the panel's worker-src). Hover and click are resolved on
+// the CPU. Colours: classes from our palette; unclassified nodes and links in the theme's foreground.
 import Graph from 'graphology';
-import forceAtlas2 from 'graphology-layout-forceatlas2';
 import Sigma from 'sigma';
-import { pathLine } from 'sigma/rendering';
 import type { ClassView, NeighbourhoodGraph } from '../src/protocol/webview';
 import { classColour } from './classPalette';
+import { cssColourBytes } from './cssColour';
+import { nodeCount, pickNode, sceneExtent, type GraphScene } from './graphScene';
+import { SceneLayer, viewScales, type SceneSource } from './sceneLayer';
 import { initialPlacement } from './initialPlacement';
-import { layoutSettings, layoutSettledMark, ProgressiveLayout, type LayoutBudget } from './progressiveLayout';
+import { layOutAtOnce, layoutSettledMark, ProgressiveLayout, type LayoutBudget } from './progressiveLayout';
 import { el, replaceChildren } from './dom';
 
 const synchronousLayoutLimit = 3000;
@@ -53,6 +55,10 @@ export class GraphView {
   private readonly tooltip: HTMLElement;
   private readonly caption: HTMLElement;
   private renderer: Sigma | null = null;
+  /** What the scene layer draws. */
+  private readonly source: SceneSource = { scene: null, positionsVersion: 0, coloursVersion: 0, linkColour: [0, 0, 0, 0] };
+  /** The tooltip stays (a click showed it) until the next click elsewhere. */
+  private pinned = false;
   private layout: ProgressiveLayout | null = null;
   private layoutFrame = 0;
   private layoutTimer = 0;
@@ -74,8 +80,7 @@ export class GraphView {
       'Lay out',
     );
     relayout.addEventListener('click', () => {
-      const graph = this.renderer?.getGraph();
-      if (graph) this.runWorkerLayout(graph);
+      if (this.source.scene) this.runWorkerLayout(this.source.scene);
     });
     this.element = el(
       'section',
@@ -84,6 +89,10 @@ export class GraphView {
       this.stage,
       this.tooltip,
     );
+    // VS Code changes theme in place (the variables on <html>, the kind on <body>): recolour then.
+    const themeWatch = new MutationObserver(() => this.recolour());
+    themeWatch.observe(document.documentElement, { attributes: true, attributeFilter: ['style'] });
+    themeWatch.observe(document.body, { attributes: true, attributeFilter: ['class'] });
     if (!webglAvailable())
       this.showUnavailable(
         'WebGL is not available in this window, so the neighbourhood graph cannot be drawn. Everything else works: the members are listed in the table.',
@@ -147,8 +156,10 @@ export class GraphView {
     this.stopLayout();
     this.renderer?.kill();
     this.renderer = null;
+    this.source.scene = null;
     this.shownKey = '';
     this.tooltip.hidden = true;
+    this.pinned = false;
   }
 
   /** The class node i is coloured with: pending, else label, else predicted (negative for none). */
@@ -157,77 +168,91 @@ export class GraphView {
     return data.nodes.pending[i] >= 0 ? data.nodes.pending[i] : data.nodes.label[i] >= 0 ? data.nodes.label[i] : data.nodes.predicted[i];
   }
 
-  private nodeColour(i: number, neutral: string): string {
-    const cls = this.colourClass(i);
-    return cls >= 0 ? classColour(this.classes[cls]?.colour ?? cls) : neutral;
+  /** Node colours (class, else the theme's foreground) and the link colour (the theme's, faint). */
+  private writeColours(scene: GraphScene): void {
+    const neutral = cssColourBytes(themeColour('--vscode-foreground', '--vscode-editor-foreground'));
+    for (let i = 0; i < nodeCount(scene); i++) {
+      const cls = this.colourClass(i);
+      scene.colours.set(cls >= 0 ? cssColourBytes(classColour(this.classes[cls]?.colour ?? cls)) : neutral, 4 * i);
+    }
+    this.source.coloursVersion++;
+    const link = cssColourBytes(withAlpha(themeColour('--vscode-descriptionForeground', '--vscode-foreground'), 0.35));
+    const alpha = link[3] / 255;
+    this.source.linkColour = [(link[0] / 255) * alpha, (link[1] / 255) * alpha, (link[2] / 255) * alpha, alpha];
   }
 
   private recolour(): void {
-    const renderer = this.renderer;
-    if (!renderer) return;
-    const graph = renderer.getGraph();
-    const neutral = themeColour('--vscode-foreground', '--vscode-editor-foreground');
-    graph.forEachNode((node) => graph.setNodeAttribute(node, 'color', this.nodeColour(Number(node), neutral)));
+    if (!this.renderer || !this.source.scene) return;
+    this.writeColours(this.source.scene);
+    this.renderer.refresh();
   }
 
   private draw(data: NeighbourhoodGraph): void {
     this.stopLayout();
     this.tooltip.hidden = true;
-    const neutral = themeColour('--vscode-foreground', '--vscode-editor-foreground');
-    const edgeColour = withAlpha(themeColour('--vscode-descriptionForeground', '--vscode-foreground'), 0.35);
-    const graph = new Graph({ type: 'undirected', multi: false, allowSelfLoops: false });
+    this.pinned = false;
     const count = data.nodes.ids.length;
-    // Members in a disc at the centre, neighbours in a disc per class around them: readable at
-    // once, and a start from which the force layout settles quickly.
-    const { positions } = initialPlacement(data, (i) => this.colourClass(i));
-    for (let i = 0; i < count; i++) {
-      graph.addNode(String(i), {
-        x: positions[2 * i],
-        y: positions[2 * i + 1],
-        size: i < data.memberCount ? 5 : 3,
-        color: this.nodeColour(i, neutral),
-      });
-    }
-    // Duplicate links checked on a numeric key: graphology's hasEdge on string keys is the slow part for 20,000 links.
+    // Duplicate links dropped on a numeric key.
     const seen = new Set<number>();
+    const links: number[] = [];
     for (let e = 0; e < data.source.length; e++) {
       const [low, high] = data.source[e] < data.target[e] ? [data.source[e], data.target[e]] : [data.target[e], data.source[e]];
       const key = low * count + high;
       if (low === high || seen.has(key)) continue;
       seen.add(key);
-      graph.addEdge(String(low), String(high), { size: 1, color: edgeColour });
+      links.push(low, high);
     }
-    const laidOutAtOnce = graph.order <= synchronousLayoutLimit;
-    // Before the first render, so that sigma processes the graph once.
-    if (laidOutAtOnce && graph.size > 0) forceAtlas2.assign(graph, { iterations: synchronousIterations, settings: layoutSettings(graph) });
-    const hideEdgesOnMove = graph.size > 5000;
-    if (this.renderer) {
-      // One renderer for the panel's life: a new one per candidate would compile its WebGL
-      // programs again, which takes seconds where WebGL is drawn in software.
-      if (this.renderer.getSetting('hideEdgesOnMove') !== hideEdgesOnMove) this.renderer.setSetting('hideEdgesOnMove', hideEdgesOnMove);
-      this.renderer.getCamera().setState({ x: 0.5, y: 0.5, ratio: 1, angle: 0 });
-      this.renderer.setGraph(graph);
-    } else if (!this.createRenderer(graph, hideEdgesOnMove)) return;
-    // Sigma renders once in its constructor and in setGraph; bench/reviewPanelScale.ts reads this mark.
+    // Members in a disc at the centre, neighbours in a disc per class around them: readable at
+    // once, and a start from which the force layout settles quickly.
+    const scene: GraphScene = {
+      memberCount: data.memberCount,
+      positions: Float32Array.from(initialPlacement(data, (i) => this.colourClass(i)).positions),
+      sizes: Float32Array.from({ length: count }, (_, i) => (i < data.memberCount ? 5 : 3)),
+      colours: new Uint8Array(4 * count),
+      links: Uint32Array.from(links),
+    };
+    const laidOutAtOnce = count <= synchronousLayoutLimit;
+    if (laidOutAtOnce) layOutAtOnce(scene, synchronousIterations);
+    this.source.scene = scene;
+    this.source.positionsVersion++;
+    this.writeColours(scene);
+    if (!this.renderer && !this.createRenderer()) return;
+    const renderer = this.renderer as Sigma;
+    const hideLinksOnMove = links.length / 2 > 5000;
+    if (renderer.getSetting('hideEdgesOnMove') !== hideLinksOnMove) renderer.setSetting('hideEdgesOnMove', hideLinksOnMove);
+    renderer.setCustomBBox(sceneExtent(scene));
+    renderer.getCamera().setState({ x: 0.5, y: 0.5, ratio: 1, angle: 0 });
+    renderer.refresh();
+    // bench/reviewPanelScale.ts reads this mark.
     performance.mark(graphRenderedMark);
-    if (laidOutAtOnce || graph.size === 0)
+    if (laidOutAtOnce || scene.links.length === 0)
       performance.mark(layoutSettledMark, { detail: { rounds: laidOutAtOnce ? synchronousIterations : 0 } });
-    else this.refineLater(graph);
+    else this.refineLater(scene);
   }
 
-  private createRenderer(graph: Graph, hideEdgesOnMove: boolean): boolean {
+  private positionsMoved(): void {
+    this.source.positionsVersion++;
+    if (!this.renderer || !this.source.scene) return;
+    this.renderer.setCustomBBox(sceneExtent(this.source.scene));
+    this.renderer.refresh();
+  }
+
+  private createRenderer(): boolean {
     this.stage.replaceChildren();
     let renderer: Sigma;
+    // sigma draws nothing of its own here (its frame graph holds one invisible node, because it
+    // skips rendering an empty graph); it gives the camera, pan and zoom, and the frame in which
+    // the scene layer draws every node and link. One renderer serves the panel's life: a new one
+    // per candidate would compile its WebGL programs again, which takes seconds in software WebGL.
+    const frame = new Graph();
+    frame.addNode('frame', { x: 0, y: 0, size: 0, color: 'rgba(0, 0, 0, 0)' });
     try {
-      renderer = new Sigma(graph, this.stage, {
-        // Straight links only (the graph has no self-loops): sigma's default path set includes
-        // the loop path, and every link then draws with the loop's 66 vertices instead of 4;
-        // where WebGL is drawn in software that made each full redraw take seconds.
-        primitives: { edges: { paths: [pathLine()] } },
+      renderer = new Sigma(frame, this.stage, {
         // allowInvalidContainer: the graph may be (re)drawn while another queue's tab hides it;
         // becameVisible() sizes it once it shows again.
-        settings: { renderLabels: false, hideEdgesOnMove, stagePadding: 16, itemSizesReference: 'screen', allowInvalidContainer: true },
+        settings: { renderLabels: false, stagePadding: 16, itemSizesReference: 'screen', allowInvalidContainer: true },
       });
+      renderer.addCustomLayerProgram('neighbourhood', 'edges', (gl) => new SceneLayer(gl, renderer, this.source));
     } catch (error) {
       this.showUnavailable(
         `The neighbourhood graph cannot be drawn here (${(error as Error).message}). Everything else works: the members are listed in the table.`,
@@ -238,20 +263,50 @@ export class GraphView {
     renderer.getCamera().on('updated', () => {
       this.cameraMovedAt = performance.now();
     });
-    renderer.on('enterNode', ({ node }) => this.showTooltip(Number(node)));
-    renderer.on('leaveNode', () => {
-      this.tooltip.hidden = true;
+    renderer.on('moveBody', ({ event }) => {
+      if (this.pinned) return;
+      const node = this.nodeAt(event.x, event.y);
+      if (node >= 0) this.showTooltip(node);
+      else this.tooltip.hidden = true;
+      this.stage.style.cursor = node >= 0 ? 'pointer' : '';
     });
-    renderer.on('clickNode', ({ node }) => this.showTooltip(Number(node), true));
-    renderer.on('doubleClickNode', ({ node, event }) => {
-      event.preventSigmaDefault();
-      const id = this.data?.nodes.ids[Number(node)];
+    renderer.on('leaveStage', () => {
+      if (!this.pinned) this.tooltip.hidden = true;
+    });
+    renderer.on('clickStage', ({ event }) => {
+      const node = this.nodeAt(event.x, event.y);
+      if (node >= 0) this.showTooltip(node, true);
+      else {
+        this.pinned = false;
+        this.tooltip.hidden = true;
+      }
+    });
+    renderer.on('doubleClickStage', (payload) => {
+      const node = this.nodeAt(payload.event.x, payload.event.y);
+      if (node < 0) return;
+      // A double click on a node opens it instead of zooming.
+      payload.preventSigmaDefault();
+      const id = this.data?.nodes.ids[node];
       if (id !== undefined) this.events.openNode(id);
     });
-    renderer.on('clickStage', () => {
-      this.tooltip.hidden = true;
-    });
     return true;
+  }
+
+  /** The node drawn under a point of the graph area (CSS pixels from its top left), or −1. */
+  nodeAt(x: number, y: number): number {
+    const renderer = this.renderer;
+    const scene = this.source.scene;
+    if (!renderer || !scene) return -1;
+    const at = renderer.viewportToGraph({ x, y });
+    const beside = renderer.viewportToGraph({ x: x + 1, y });
+    const scales = viewScales(renderer, renderer.getRenderParams());
+    return pickNode(scene, {
+      x: at.x,
+      y: at.y,
+      graphUnitsPerPixel: Math.hypot(beside.x - at.x, beside.y - at.y),
+      pixelsPerSize: scales.pixelsPerSize,
+      slackPixels: 2,
+    });
   }
 
   /**
@@ -259,16 +314,17 @@ export class GraphView {
    * ForceAtlas2 in its worker for a bounded time, starting once the first frame is on screen;
    * "Lay out" runs it longer.
    */
-  private refineLater(graph: Graph): void {
+  private refineLater(scene: GraphScene): void {
     this.layoutFrame = requestAnimationFrame(() => {
-      this.layoutTimer = window.setTimeout(() => this.runWorkerLayout(graph, refineBudget, false), 0);
+      this.layoutTimer = window.setTimeout(() => this.runWorkerLayout(scene, refineBudget, false), 0);
     });
   }
 
-  private runWorkerLayout(graph: Graph, budget: LayoutBudget = relayoutBudget, fitAfter = true): void {
+  private runWorkerLayout(scene: GraphScene, budget: LayoutBudget = relayoutBudget, fitAfter = true): void {
     this.layout?.kill();
-    const layout = new ProgressiveLayout(graph, budget, {
+    const layout = new ProgressiveLayout(scene, budget, {
       isInteracting: () => this.interacting(),
+      moved: () => this.positionsMoved(),
       settled: (rounds) => {
         performance.mark(layoutSettledMark, { detail: { rounds } });
         if (fitAfter) this.zoomToFit();
@@ -310,5 +366,6 @@ export class GraphView {
       pinned ? open : null,
     );
     this.tooltip.hidden = false;
+    this.pinned = pinned;
   }
 }

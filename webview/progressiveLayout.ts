@@ -1,35 +1,62 @@
-// ForceAtlas2 in its web worker, refining the drawn graph a few times a second rather than after
-// every round. The worker's supervisor writes each round into a shadow graph that nothing draws;
-// positions are copied to the drawn graph on a timer, and not while the curator moves the view,
-// because each copy costs a full redraw (about 1.6 s for 10,000 nodes and 20,000 links where
-// WebGL is drawn in software), which would make panning stutter.
+// ForceAtlas2 over a GraphScene: at once for a small neighbourhood, or in its web worker for a large
+// one, refining the drawn scene a few times a second rather than after every round. The worker's
+// supervisor writes each round into a graphology graph that nothing draws; positions are copied
+// into the scene on a timer, and not while the curator moves the view.
 import Graph from 'graphology';
 import FA2Layout from 'graphology-layout-forceatlas2/worker';
 import forceAtlas2 from 'graphology-layout-forceatlas2';
+import { nodeCount, type GraphScene } from './graphScene';
 
 export const layoutSettledMark = 'review:layout-settled';
 
 export const layoutSettings = (graph: Graph) => ({ ...forceAtlas2.inferSettings(graph), barnesHutOptimize: graph.order > 500 });
+
+/** The scene's nodes (keyed by index) and links as a graphology graph, at the scene's positions. */
+export function layoutGraph(scene: GraphScene): Graph {
+  const graph = new Graph({ type: 'undirected', multi: false, allowSelfLoops: false });
+  for (let i = 0; i < nodeCount(scene); i++) graph.addNode(String(i), { x: scene.positions[2 * i], y: scene.positions[2 * i + 1] });
+  for (let e = 0; e < scene.links.length; e += 2) graph.addEdge(String(scene.links[e]), String(scene.links[e + 1]));
+  return graph;
+}
+
+/** The graph's positions into the scene. */
+export function copyLayout(graph: Graph, scene: GraphScene): void {
+  graph.forEachNode((node, attributes) => {
+    const i = Number(node);
+    scene.positions[2 * i] = attributes.x as number;
+    scene.positions[2 * i + 1] = attributes.y as number;
+  });
+}
+
+/** ForceAtlas2 on the main thread, for neighbourhoods small enough to lay out before the first frame. */
+export function layOutAtOnce(scene: GraphScene, iterations: number): void {
+  if (scene.links.length === 0) return;
+  const graph = layoutGraph(scene);
+  forceAtlas2.assign(graph, { iterations, settings: layoutSettings(graph) });
+  copyLayout(graph, scene);
+}
 
 export interface LayoutBudget {
   /** Stop after this many worker rounds (a busy machine still gets its layout)… */
   rounds: number;
   /** …or after this long, whichever comes first. */
   maxMilliseconds: number;
-  /** How often the drawn graph takes the worker's positions. */
+  /** How often the scene takes the worker's positions. */
   applyEveryMilliseconds: number;
 }
 
 export interface LayoutHooks {
-  /** True while the view is being moved: copying positions then would make the motion stutter. */
+  /** True while the view is being moved: positions are not copied then. */
   isInteracting(): boolean;
+  /** The scene took new positions. */
+  moved(): void;
   /** Called once, after the last positions were copied. */
   settled(rounds: number): void;
 }
 
 export class ProgressiveLayout {
   private layout: FA2Layout | null = null;
-  private shadow: Graph | null = null;
+  private graph: Graph | null = null;
   private timer = 0;
   private deadline = 0;
   private rounds = 0;
@@ -37,20 +64,18 @@ export class ProgressiveLayout {
   private finished = false;
 
   constructor(
-    private readonly drawn: Graph,
+    private readonly scene: GraphScene,
     private readonly budget: LayoutBudget,
     private readonly hooks: LayoutHooks,
   ) {}
 
   /** Throws when no worker can be made (e.g. a policy without worker-src). */
   start(): void {
-    const shadow = new Graph({ type: 'undirected', multi: false, allowSelfLoops: false });
-    this.drawn.forEachNode((node, attributes) => shadow.addNode(node, { x: attributes.x as number, y: attributes.y as number }));
-    this.drawn.forEachEdge((_edge, _attributes, source, target) => shadow.addEdge(source, target));
-    this.shadow = shadow;
-    const layout = new FA2Layout(shadow, { settings: layoutSettings(shadow) });
+    const graph = layoutGraph(this.scene);
+    this.graph = graph;
+    const layout = new FA2Layout(graph, { settings: layoutSettings(graph) });
     this.layout = layout;
-    shadow.on('eachNodeAttributesUpdated', () => {
+    graph.on('eachNodeAttributesUpdated', () => {
       if (++this.rounds >= this.budget.rounds) layout.stop();
     });
     layout.start();
@@ -66,7 +91,7 @@ export class ProgressiveLayout {
     window.clearInterval(this.timer);
     this.layout?.kill();
     this.layout = null;
-    this.shadow = null;
+    this.graph = null;
   }
 
   private tick(): void {
@@ -75,24 +100,14 @@ export class ProgressiveLayout {
     const done = !layout.isRunning() || performance.now() >= this.deadline;
     if (done) layout.stop();
     if (this.hooks.isInteracting()) return;
-    if (this.rounds > this.copiedRound) this.copyPositions();
+    if (this.rounds > this.copiedRound && this.graph) {
+      this.copiedRound = this.rounds;
+      copyLayout(this.graph, this.scene);
+      this.hooks.moved();
+    }
     if (!done) return;
     this.finished = true;
     this.kill();
     this.hooks.settled(this.rounds);
-  }
-
-  private copyPositions(): void {
-    const shadow = this.shadow;
-    if (!shadow) return;
-    this.copiedRound = this.rounds;
-    this.drawn.updateEachNodeAttributes(
-      (node, attributes) => {
-        attributes.x = shadow.getNodeAttribute(node, 'x') as number;
-        attributes.y = shadow.getNodeAttribute(node, 'y') as number;
-        return attributes;
-      },
-      { attributes: ['x', 'y'] },
-    );
   }
 }

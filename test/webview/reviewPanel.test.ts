@@ -8,7 +8,9 @@ import type { Browser } from 'playwright-core';
 import type { ThresholdSetting } from '../../src/protocol/webview';
 import { createThresholdPreviewer } from '../../src/review/thresholdPreview';
 import { buildScenario, largeScenario, scenarioCandidates, type ReviewScenario } from '../review/reviewScenario';
+import { classColour } from '../../webview/classPalette';
 import { launchBrowser, openPanel, screenshotFolder, type Panel, type PanelOptions } from './panelHarness';
+import { blobsOfColour, decodePng } from './pngPixels';
 import { darkTheme, lightTheme } from './themes';
 
 describe('webview/review panel (Chromium)', function () {
@@ -74,6 +76,67 @@ describe('webview/review panel (Chromium)', function () {
       p.pageErrors.filter((e) => !e.includes('GL Driver')),
       [],
     );
+  });
+
+  it('hovering, clicking and double-clicking a drawn node shows, pins and opens that node', async () => {
+    const p = await open();
+    const page = p.page;
+    const stage = page.locator('#graph-stage');
+    await page.waitForTimeout(300);
+    // Where the screen shows a node in the first class's colour, the pointer must find a node of
+    // that class: what is drawn and what is picked agree.
+    const shot = decodePng(await stage.screenshot());
+    const className = scenario.context.classNames[0];
+    const blobs = blobsOfColour(shot, classColour(0));
+    assert.ok(blobs.length > 0 && blobs[0].size >= 9, `a disc in ${classColour(0)} is drawn (${blobs.length} found)`);
+    const box = await stage.boundingBox();
+    if (!box) throw new Error('the graph stage has no box');
+    const target = { x: box.x + blobs[0].x, y: box.y + blobs[0].y };
+    await page.mouse.move(target.x, target.y);
+    const tooltip = page.locator('#graph-tooltip');
+    await tooltip.waitFor({ state: 'visible' });
+    assert.match((await tooltip.locator('.tooltip-meta').textContent()) ?? '', new RegExp(`(label|predicted|pending) ${className}\\b`));
+    const title = (await tooltip.locator('.tooltip-title').textContent()) ?? '';
+    const nodeId = title.split(' · ')[0];
+    assert.ok(scenario.context.nodeIds.includes(nodeId), `the tooltip names a node of the scenario (${title})`);
+    assert.equal(await page.locator('#tooltip-open').count(), 0, 'hovering does not pin');
+    // An empty corner of the graph: nothing under the pointer, the hover box goes.
+    const corner = { x: box.x + 3, y: box.y + 3 };
+    assert.equal(shot.rgba[4 * (3 * shot.width + 3) + 3], 255);
+    await page.mouse.move(corner.x, corner.y);
+    await tooltip.waitFor({ state: 'hidden' });
+    // A click pins it, with a button to open the node.
+    await page.mouse.click(target.x, target.y);
+    await page.locator('#tooltip-open').waitFor();
+    await page.mouse.move(corner.x, corner.y);
+    await page.waitForTimeout(100);
+    assert.equal(await tooltip.isVisible(), true, 'a pinned box stays while the pointer moves away');
+    await page.mouse.dblclick(target.x, target.y);
+    const deadline = Date.now() + 5000;
+    while (!p.opened.includes(nodeId) && Date.now() < deadline) await page.waitForTimeout(50);
+    assert.deepEqual(p.opened, [nodeId], 'a double click opens the node under the pointer');
+    assert.deepEqual(
+      p.pageErrors.filter((e) => !e.includes('GL Driver')),
+      [],
+    );
+  });
+
+  it('recolours the graph when the theme changes in place', async () => {
+    const p = await open();
+    const page = p.page;
+    const stage = page.locator('#graph-stage');
+    await page.waitForTimeout(300);
+    // The candidate's members have no class: they are drawn in the theme's foreground.
+    const neutralDiscs = async (hex: string) => blobsOfColour(decodePng(await stage.screenshot()), hex).filter((b) => b.size >= 9).length;
+    assert.ok((await neutralDiscs(lightTheme['--vscode-foreground'])) > 0, 'members in the light foreground');
+    // As VS Code does: new variables on <html>, the theme kind on <body>.
+    await page.evaluate((theme) => {
+      for (const [name, value] of Object.entries(theme)) document.documentElement.style.setProperty(name, value);
+      document.body.classList.replace('vscode-light', 'vscode-dark');
+    }, darkTheme);
+    await page.waitForTimeout(300);
+    assert.ok((await neutralDiscs(darkTheme['--vscode-foreground'])) > 0, 'members in the dark foreground');
+    assert.equal(await neutralDiscs(lightTheme['--vscode-foreground']), 0, 'none left in the light one');
   });
 
   it('records each decision made by clicking, with the fields the host needs', async () => {
