@@ -266,7 +266,7 @@ export class GraphView {
     renderer.on('moveBody', ({ event }) => {
       if (this.pinned) return;
       const node = this.nodeAt(event.x, event.y);
-      if (node >= 0) this.showTooltip(node);
+      if (node >= 0) this.showTooltip(node, false, event.y);
       else this.tooltip.hidden = true;
       this.stage.style.cursor = node >= 0 ? 'pointer' : '';
     });
@@ -275,7 +275,7 @@ export class GraphView {
     });
     renderer.on('clickStage', ({ event }) => {
       const node = this.nodeAt(event.x, event.y);
-      if (node >= 0) this.showTooltip(node, true);
+      if (node >= 0) this.showTooltip(node, true, event.y);
       else {
         this.pinned = false;
         this.tooltip.hidden = true;
@@ -347,8 +347,12 @@ export class GraphView {
     return performance.now() - this.cameraMovedAt < 250 || Boolean(this.renderer?.getMouseCaptor().isMouseDown);
   }
 
-  /** Details of node i; with `pinned`, the box stays until the next click elsewhere. */
-  showTooltip(i: number, pinned = false): void {
+  /**
+   * Details of node i; with `pinned`, the box stays until the next click elsewhere. The box sits at
+   * the bottom of the graph, or at the top when the pointer (`pointerY`, pixels from the graph's
+   * top) is in the lower half, so that it does not cover the node it describes.
+   */
+  showTooltip(i: number, pinned = false, pointerY?: number): void {
     const data = this.data;
     if (!data) return;
     const className = (index: number) => (index >= 0 ? (this.classes[index]?.name ?? '?') : '—');
@@ -366,6 +370,10 @@ export class GraphView {
       pinned ? open : null,
     );
     this.tooltip.hidden = false;
+    this.tooltip.classList.toggle('pinned', pinned);
+    const atTop = pointerY !== undefined && pointerY > this.stage.clientHeight / 2;
+    this.tooltip.classList.toggle('at-top', atTop);
+    this.tooltip.style.top = atTop ? `${this.stage.offsetTop + 8}px` : '';
     this.pinned = pinned;
   }
 }

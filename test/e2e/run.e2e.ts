@@ -12,7 +12,14 @@ import { installExtension, startCodeServer, type CodeServerFolders, type Running
 import { probePackagedRuntime } from './harness/packagedRuntime';
 import { defaultVsixPath, demoDatasetFolder, logsDir, screenshotsDir } from './harness/paths';
 import { changedLabelIds, git, labelsById, logGrowth, runCandidates, snapshotLabelFiles } from './harness/labelChanges';
-import { currentCandidate, mergeIntoFirstClass, nameAsNewClass, pendingDecisionTexts, reviewFrame } from './harness/reviewPanel';
+import {
+  currentCandidate,
+  hoverDrawnNode,
+  mergeIntoFirstClass,
+  nameAsNewClass,
+  pendingDecisionTexts,
+  reviewFrame,
+} from './harness/reviewPanel';
 import { currentSecondLookItem, decideByKey, queueCounts, showQueueByKey, waitForSecondLookQueues } from './harness/secondLook';
 import { StepRecorder } from './harness/steps';
 import { keepVscodeLogs, outputChannelText } from './harness/vscodeLogs';
@@ -246,6 +253,14 @@ async function scenario(options: Options, resources: { server?: RunningCodeServe
       const queued = await frame.locator('#queue-list .queue-item').count();
       assert(queued === candidateCount, `the queue lists ${queued} candidates, the scoring reported ${candidateCount}`);
       return shown;
+    });
+
+    await steps.step('graph-drawn-and-picked', 60_000, async () => {
+      const { caption, colour, tooltip } = await hoverDrawnNode(page, frame);
+      console.log(`       graph: ${caption}; hovered a ${colour} disc: ${tooltip}`);
+      assert(/^\d+ members, \d+ neighbours, \d+ links/.test(caption), `graph caption "${caption}"`);
+      // A class colour is a neighbour's known or predicted class: the box names a node and its class.
+      assert(/^\S+ · neighbour .*(label|predicted) \S+/.test(tooltip), `the hover box says "${tooltip}"`);
     });
 
     const secondCandidate = await steps.step('name-first-candidate', 60_000, async () => {

@@ -91,7 +91,9 @@ describe('webview/review panel (Chromium)', function () {
     assert.ok(blobs.length > 0 && blobs[0].size >= 9, `a disc in ${classColour(0)} is drawn (${blobs.length} found)`);
     const box = await stage.boundingBox();
     if (!box) throw new Error('the graph stage has no box');
-    const target = { x: box.x + blobs[0].x, y: box.y + blobs[0].y };
+    // The lowest such disc: where a box at the bottom of the graph would cover it.
+    const lowest = blobs.filter((b) => b.size >= 9).sort((a, b) => b.y - a.y)[0];
+    const target = { x: box.x + lowest.x, y: box.y + lowest.y };
     await page.mouse.move(target.x, target.y);
     const tooltip = page.locator('#graph-tooltip');
     await tooltip.waitFor({ state: 'visible' });
@@ -100,6 +102,11 @@ describe('webview/review panel (Chromium)', function () {
     const nodeId = title.split(' · ')[0];
     assert.ok(scenario.context.nodeIds.includes(nodeId), `the tooltip names a node of the scenario (${title})`);
     assert.equal(await page.locator('#tooltip-open').count(), 0, 'hovering does not pin');
+    const tipBox = await tooltip.boundingBox();
+    if (!tipBox) throw new Error('the hover box has no box');
+    const covers =
+      target.x >= tipBox.x && target.x <= tipBox.x + tipBox.width && target.y >= tipBox.y && target.y <= tipBox.y + tipBox.height;
+    assert.equal(covers, false, 'the hover box does not cover the node it describes');
     // An empty corner of the graph: nothing under the pointer, the hover box goes.
     const corner = { x: box.x + 3, y: box.y + 3 };
     assert.equal(shot.rgba[4 * (3 * shot.width + 3) + 3], 255);
