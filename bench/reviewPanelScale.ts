@@ -102,6 +102,8 @@ async function main(): Promise<void> {
       window.__since = performance.now();
       window.__snapshotAt = () => performance.getEntriesByName('review:snapshot-received').filter((m) => m.startTime >= window.__since)[0]?.startTime ?? -1;
       window.__firstFrameAt = -1;
+      window.__clickedAt = -1;
+      document.addEventListener('pointerdown', () => { if (window.__clickedAt < 0) window.__clickedAt = performance.now(); }, true);
       // The frame after the one that drew the new candidate starts once that one is presented.
       window.__waitFrame = () => { if (window.__snapshotAt() >= 0) requestAnimationFrame(() => { window.__firstFrameAt = performance.now(); }); else requestAnimationFrame(window.__waitFrame); };
       requestAnimationFrame(window.__waitFrame);
@@ -115,6 +117,7 @@ async function main(): Promise<void> {
       `performance.getEntriesByType('mark').filter((m) => m.startTime >= window.__snapshotAt()).map((m) => ({ name: m.name, at: m.startTime - window.__snapshotAt() }))`,
     );
     const firstFrame = await page.evaluate<number>(`window.__firstFrameAt - window.__snapshotAt()`);
+    const clickToSnapshot = await page.evaluate<number>(`window.__snapshotAt() - window.__clickedAt`);
     const firstMark = (name: string) => marks.find((m) => m.name === name)?.at ?? NaN;
     // The layout refines after the first frame; its marks say when it was last drawn and stopped.
     await waitUntil(page, `performance.getEntriesByName('review:layout-settled').some((m) => m.startTime >= window.__snapshotAt())`);
@@ -125,9 +128,13 @@ async function main(): Promise<void> {
     })()`);
 
     print(`Review panel, one candidate of ${memberCount.toLocaleString()} members: ${caption}`);
+    print(
+      `  click on the queue → snapshot message:                      ${clickToSnapshot.toFixed(0)} ms (the stub host builds the candidate's snapshot and posts it as JSON)`,
+    );
     print(`  snapshot message → first graph render (sigma afterRender): ${firstMark('review:graph-rendered').toFixed(0)} ms`);
     print(`  snapshot message → member table rows in the DOM:            ${firstMark('review:table-ready').toFixed(0)} ms`);
     print(`  snapshot message → first frame presented:                    ${firstFrame.toFixed(0)} ms`);
+    print(`  click on the queue → first frame presented:                  ${(clickToSnapshot + firstFrame).toFixed(0)} ms`);
     print(`  snapshot message → layout settled:                           ${settled.toFixed(0)} ms (${rounds} ForceAtlas2 rounds)`);
     print(`  frames while the layout refines: ${formatFrames(duringLayout)}`);
     const longTasks = await page.evaluate<number[][]>('window.__longTasks.map(([s, d]) => [Math.round(s - window.__snapshotAt()), d])');
