@@ -53,12 +53,15 @@ export function onFormKeys(form: HTMLElement, confirm: () => void, close: () => 
   });
 }
 
+/** Inputs that take no text: a shortcut pressed while one has focus is still a shortcut. */
+const keylessInputTypes = new Set(['checkbox', 'radio', 'range', 'button', 'submit', 'reset', 'color', 'file']);
+
 export function isTyping(event: Event): boolean {
   return event.composedPath().some((target) => {
     if (!(target instanceof HTMLElement)) return false;
     const tag = target.tagName.toLowerCase();
     return (
-      tag === 'input' ||
+      (target instanceof HTMLInputElement && !keylessInputTypes.has(target.type)) ||
       tag === 'textarea' ||
       tag === 'vscode-textfield' ||
       tag === 'vscode-textarea' ||

@@ -52,23 +52,39 @@ export interface PickView {
 }
 
 /**
- * The node under the pointer, or −1: among the nodes whose disc (plus the slack) holds the point,
- * the one whose centre is nearest. Linear in the node count, which is microseconds for the
- * 10,000 nodes of the largest neighbourhood and needs no index to keep up with the layout.
+ * The node under the pointer, or −1. The disc drawn on top wins where the point is inside discs
+ * (neighbours are drawn first, then members, each in index order); otherwise, among the discs
+ * whose slack ring holds the point, the one whose centre is nearest. Linear in the node count,
+ * which is microseconds for the 10,000 nodes of the largest neighbourhood and needs no index to
+ * keep up with the layout.
  */
 export function pickNode(scene: GraphScene, view: PickView): number {
   const n = nodeCount(scene);
-  let best = -1;
-  let bestDistance = Infinity;
+  let top = -1;
+  let topRank = -1;
+  let nearest = -1;
+  let nearestDistance = Infinity;
   for (let i = 0; i < n; i++) {
     const dx = scene.positions[2 * i] - view.x;
     const dy = scene.positions[2 * i + 1] - view.y;
     const distance = dx * dx + dy * dy;
-    const reach = (scene.sizes[i] * view.pixelsPerSize + view.slackPixels) * view.graphUnitsPerPixel;
-    if (distance <= reach * reach && distance < bestDistance) {
-      best = i;
-      bestDistance = distance;
+    const radius = scene.sizes[i] * view.pixelsPerSize * view.graphUnitsPerPixel;
+    const rank = drawRank(scene, i);
+    if (distance <= radius * radius && rank > topRank) {
+      top = i;
+      topRank = rank;
+    }
+    const reach = radius + view.slackPixels * view.graphUnitsPerPixel;
+    if (distance <= reach * reach && distance < nearestDistance) {
+      nearest = i;
+      nearestDistance = distance;
     }
   }
-  return best;
+  return top >= 0 ? top : nearest;
+}
+
+/** The order in which node i is drawn: neighbours first, then members, each by index. */
+export function drawRank(scene: GraphScene, i: number): number {
+  const neighbours = nodeCount(scene) - scene.memberCount;
+  return i < scene.memberCount ? neighbours + i : i - scene.memberCount;
 }

@@ -13,7 +13,8 @@ import { initialPlacement } from './initialPlacement';
 import { layOutAtOnce, layoutSettledMark, ProgressiveLayout, type LayoutBudget } from './progressiveLayout';
 import { el, replaceChildren } from './dom';
 
-const synchronousLayoutLimit = 3000;
+/** Up to this many nodes ForceAtlas2 runs before the first frame (about 0.2 s here); above, in its worker after it. */
+const synchronousLayoutLimit = 300;
 export const graphRenderedMark = 'review:graph-rendered';
 const synchronousIterations = 150;
 /** "Lay out": long enough for a large graph to settle. */
@@ -24,8 +25,10 @@ const refineBudget: LayoutBudget = { rounds: 150, maxMilliseconds: 4000, applyEv
 /** WebGL is what sigma draws with; some VS Code installs (remote desktops, old drivers) lack it. */
 export function webglAvailable(): boolean {
   try {
-    const canvas = document.createElement('canvas');
-    return Boolean(canvas.getContext('webgl2') ?? canvas.getContext('webgl'));
+    // WebGL 2, which sigma and the scene layer need; the probe context is given back at once.
+    const context = document.createElement('canvas').getContext('webgl2');
+    context?.getExtension('WEBGL_lose_context')?.loseContext();
+    return Boolean(context);
   } catch {
     return false;
   }
@@ -36,13 +39,14 @@ function themeColour(variable: string, fallbackVariable: string): string {
   return (style.getPropertyValue(variable) || style.getPropertyValue(fallbackVariable)).trim() || 'gray';
 }
 
-/** rgba() of a theme colour given as #rgb/#rrggbb (or left as it is). */
-function withAlpha(colour: string, alpha: number): string {
-  const match = /^#([0-9a-f]{3}|[0-9a-f]{6})$/i.exec(colour);
-  if (!match) return colour;
-  const hex = match[1].length === 3 ? [...match[1]].map((c) => c + c).join('') : match[1];
-  const value = parseInt(hex, 16);
-  return `rgba(${(value >> 16) & 255}, ${(value >> 8) & 255}, ${value & 255}, ${alpha})`;
+/** FNV-1a over the node ids: the same candidate with other nodes (but the same counts) is drawn anew. */
+function idsHash(ids: string[]): number {
+  let hash = 0x811c9dc5;
+  for (const id of ids) {
+    for (let c = 0; c < id.length; c++) hash = Math.imul(hash ^ id.charCodeAt(c), 0x01000193);
+    hash = Math.imul(hash ^ 10, 0x01000193);
+  }
+  return hash >>> 0;
 }
 
 export interface GraphViewEvents {
@@ -89,6 +93,8 @@ export class GraphView {
       this.stage,
       this.tooltip,
     );
+    // The stage changes size without a window resize (a form opens above it): sigma measures anew.
+    new ResizeObserver(() => this.renderer?.scheduleRefresh()).observe(this.stage);
     // VS Code changes theme in place (the variables on <html>, the kind on <body>): recolour then.
     const themeWatch = new MutationObserver(() => this.recolour());
     themeWatch.observe(document.documentElement, { attributes: true, attributeFilter: ['style'] });
@@ -117,7 +123,7 @@ export class GraphView {
     this.caption.textContent = `${graph.memberCount} members, ${graph.nodes.ids.length - graph.memberCount} neighbours, ${graph.source.length} links${edgeNote}`;
     if (this.unavailable) return;
     // Same candidate and same nodes: recolour in place and keep the layout.
-    const key = `${candidateId}|${graph.nodes.ids.length}|${graph.source.length}`;
+    const key = `${candidateId}|${graph.nodes.ids.length}|${graph.source.length}|${idsHash(graph.nodes.ids)}`;
     if (key === this.shownKey && this.renderer) {
       this.recolour();
       return;
@@ -176,8 +182,9 @@ export class GraphView {
       scene.colours.set(cls >= 0 ? cssColourBytes(classColour(this.classes[cls]?.colour ?? cls)) : neutral, 4 * i);
     }
     this.source.coloursVersion++;
-    const link = cssColourBytes(withAlpha(themeColour('--vscode-descriptionForeground', '--vscode-foreground'), 0.35));
-    const alpha = link[3] / 255;
+    // Links faint: 35% of the theme colour's own opacity (themes give some colours as rgba()).
+    const link = cssColourBytes(themeColour('--vscode-descriptionForeground', '--vscode-foreground'));
+    const alpha = (link[3] / 255) * 0.35;
     this.source.linkColour = [(link[0] / 255) * alpha, (link[1] / 255) * alpha, (link[2] / 255) * alpha, alpha];
   }
 
@@ -233,7 +240,11 @@ export class GraphView {
   private positionsMoved(): void {
     this.source.positionsVersion++;
     if (!this.renderer || !this.source.scene) return;
-    this.renderer.setCustomBBox(sceneExtent(this.source.scene));
+    // The frame follows the layout while the curator has not moved the view; once they have, it
+    // stays, so that what they zoomed into does not jump away.
+    const camera = this.renderer.getCamera().getState();
+    if (camera.x === 0.5 && camera.y === 0.5 && camera.ratio === 1 && camera.angle === 0)
+      this.renderer.setCustomBBox(sceneExtent(this.source.scene));
     this.renderer.refresh();
   }
 
@@ -264,7 +275,9 @@ export class GraphView {
       this.cameraMovedAt = performance.now();
     });
     renderer.on('moveBody', ({ event }) => {
-      if (this.pinned) return;
+      // sigma reports pointer moves over the whole page; only those over the graph hover.
+      const outside = event.x < 0 || event.y < 0 || event.x > this.stage.clientWidth || event.y > this.stage.clientHeight;
+      if (this.pinned || outside) return;
       const node = this.nodeAt(event.x, event.y);
       if (node >= 0) this.showTooltip(node, false, event.y);
       else this.tooltip.hidden = true;
@@ -321,7 +334,8 @@ export class GraphView {
   }
 
   private runWorkerLayout(scene: GraphScene, budget: LayoutBudget = relayoutBudget, fitAfter = true): void {
-    this.layout?.kill();
+    // Also cancels a refinement still waiting to start, which would replace this run.
+    this.stopLayout();
     const layout = new ProgressiveLayout(scene, budget, {
       isInteracting: () => this.interacting(),
       moved: () => this.positionsMoved(),

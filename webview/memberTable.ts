@@ -142,6 +142,13 @@ export class MemberTable {
     if (candidateId !== this.candidateId) {
       this.selected.clear();
       this.lastClicked = -1;
+    } else if (graph !== this.graph) {
+      // The same candidate with other members (a move, an undo): the selection follows the node
+      // ids, not the row positions, and drops members that left.
+      const keep = new Set(this.selectedIds());
+      this.selected.clear();
+      this.lastClicked = -1;
+      for (let i = 0; i < (graph?.memberCount ?? 0); i++) if (keep.has((graph as NeighbourhoodGraph).nodes.ids[i])) this.selected.add(i);
     }
     this.graph = graph;
     this.classes = classes;

@@ -52,6 +52,21 @@ describe('webview/graph scene', () => {
     assert.equal(pickNode(three, view(5, 0, { slackPixels: 2 })), 0, 'a tie at 5 keeps the first');
   });
 
+  it('takes the disc drawn on top where the point is inside several', () => {
+    // A member (size 5 at the origin) drawn over a neighbour (size 3 at x = 3): at x = 4.5 the
+    // neighbour's centre is nearer (1.5 against 4.5) but the member's disc covers the point.
+    const stacked = scene([
+      [0, 0, 5],
+      [3, 0, 3],
+    ]);
+    assert.equal(pickNode(stacked, view(4.5, 0)), 0);
+    // Past the member's edge only the neighbour's disc holds the point.
+    assert.equal(pickNode(stacked, view(5.5, 0)), 1);
+    // Two neighbours: the later one is drawn over the earlier.
+    const neighbours = { ...stacked, memberCount: 0 };
+    assert.equal(pickNode(neighbours, view(2, 0)), 1);
+  });
+
   it('scales discs with the zoom: radius in pixels × graph units per pixel', () => {
     // Zoomed out four times (4 graph units per pixel): node 2's 3 px disc spans 12 graph units.
     assert.equal(pickNode(three, view(111, 50, { graphUnitsPerPixel: 4 })), 2);

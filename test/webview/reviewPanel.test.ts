@@ -201,6 +201,9 @@ describe('webview/review panel (Chromium)', function () {
     assert.deepEqual([...(move.members as string[])].sort(), [...picked].sort());
     assert.equal(move.className, 'blade-crack', 'the first class is chosen by default');
     await settled(p, 5);
+    // The moved members left the candidate: nothing stays selected (row positions now hold others).
+    await page.waitForFunction(() => /· 0 selected$/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    assert.equal(await page.locator('.member-rows input[type=checkbox]:checked').count(), 0);
 
     mark = p.posted.length;
     await page.locator('#decide-merge-into').click();
@@ -280,8 +283,8 @@ describe('webview/review panel (Chromium)', function () {
     await settled(p, 3);
 
     mark = p.posted.length;
+    // A ticked checkbox keeps the focus, and the shortcut still works.
     await page.locator('#select-shown').click();
-    await page.locator('body').click({ position: { x: 5, y: 5 } });
     await page.keyboard.press('v');
     await page.locator('#move-class').waitFor();
     await page.locator('#confirm-move').click();
