@@ -58,6 +58,7 @@ export class GraphView {
   private readonly stage: HTMLElement;
   private readonly tooltip: HTMLElement;
   private readonly caption: HTMLElement;
+  private readonly legend: HTMLElement;
   private renderer: Sigma | null = null;
   /** What the scene layer draws. */
   private readonly source: SceneSource = { scene: null, positionsVersion: 0, coloursVersion: 0, linkColour: [0, 0, 0, 0] };
@@ -76,6 +77,7 @@ export class GraphView {
     this.stage = el('div', { class: 'graph-stage', id: 'graph-stage' });
     this.tooltip = el('div', { class: 'graph-tooltip', id: 'graph-tooltip', role: 'status', hidden: true });
     this.caption = el('div', { class: 'graph-caption', id: 'graph-caption' });
+    this.legend = el('ul', { class: 'graph-legend', id: 'graph-legend', 'aria-label': 'Colours of the graph' });
     const fit = el('vscode-button', { id: 'zoom-fit', secondary: true, title: 'Zoom to fit (F)' }, 'Zoom to fit');
     fit.addEventListener('click', () => this.zoomToFit());
     const relayout = el(
@@ -90,6 +92,7 @@ export class GraphView {
       'section',
       { class: 'graph', 'aria-label': 'Neighbourhood graph' },
       el('div', { class: 'graph-toolbar' }, this.caption, relayout, fit),
+      this.legend,
       this.stage,
       this.tooltip,
     );
@@ -114,6 +117,7 @@ export class GraphView {
     this.classes = classes;
     if (!graph) {
       this.caption.textContent = 'No candidate selected';
+      this.showLegend();
       this.clear();
       return;
     }
@@ -129,6 +133,7 @@ export class GraphView {
       return;
     }
     this.shownKey = key;
+    this.showLegend();
     this.draw(graph);
   }
 
@@ -189,9 +194,52 @@ export class GraphView {
   }
 
   private recolour(): void {
+    this.showLegend();
     if (!this.renderer || !this.source.scene) return;
     this.writeColours(this.source.scene);
     this.renderer.refresh();
+  }
+
+  /** The key to the colours: each class drawn, most nodes first, and the nodes without one. */
+  private showLegend(): void {
+    const data = this.data;
+    if (!data) {
+      replaceChildren(this.legend);
+      return;
+    }
+    const counts = new Map<number, number>();
+    for (let i = 0; i < data.nodes.ids.length; i++) {
+      const cls = this.colourClass(i);
+      counts.set(cls, (counts.get(cls) ?? 0) + 1);
+    }
+    const shown = 8;
+    const entries = [...counts].filter(([cls]) => cls >= 0).sort((a, b) => b[1] - a[1] || a[0] - b[0]);
+    const entry = (colour: string, name: string, count: number, classIndex: number | null) => {
+      const swatch = el('span', { class: 'legend-swatch', 'aria-hidden': 'true' });
+      swatch.style.background = colour;
+      return el('li', classIndex === null ? { class: 'legend-none' } : { 'data-class': String(classIndex) }, swatch, `${name} ${count}`);
+    };
+    const more = entries.length - shown;
+    replaceChildren(
+      this.legend,
+      ...entries
+        .slice(0, shown)
+        .map(([cls, count]) => entry(classColour(this.classes[cls]?.colour ?? cls), this.classes[cls]?.name ?? '?', count, cls)),
+      more > 0
+        ? el(
+            'li',
+            {
+              class: 'muted',
+              title: entries
+                .slice(shown)
+                .map(([cls]) => this.classes[cls]?.name ?? '?')
+                .join(', '),
+            },
+            `+${more} more`,
+          )
+        : null,
+      counts.has(-1) ? entry('var(--vscode-foreground)', 'no class', counts.get(-1) as number, null) : null,
+    );
   }
 
   private draw(data: NeighbourhoodGraph): void {

@@ -89,6 +89,13 @@ describe('webview/review panel (Chromium)', function () {
     const className = scenario.context.classNames[0];
     const blobs = blobsOfColour(shot, classColour(0));
     assert.ok(blobs.length > 0 && blobs[0].size >= 9, `a disc in ${classColour(0)} is drawn (${blobs.length} found)`);
+    // The key names that class beside a swatch of the colour drawn, and the nodes without a class.
+    const key = page.locator(`#graph-legend li[data-class="0"]`);
+    assert.match((await key.textContent()) ?? '', new RegExp(`^${className} \\d+$`));
+    const swatch = await key.locator('.legend-swatch').evaluate((e) => getComputedStyle(e).backgroundColor);
+    const hex = parseInt(classColour(0).slice(1), 16);
+    assert.equal(swatch, `rgb(${(hex >> 16) & 255}, ${(hex >> 8) & 255}, ${hex & 255})`);
+    assert.match((await page.locator('#graph-legend li.legend-none').textContent()) ?? '', /^no class \d+$/);
     const box = await stage.boundingBox();
     if (!box) throw new Error('the graph stage has no box');
     // The lowest such disc: where a box at the bottom of the graph would cover it.
