@@ -72,6 +72,7 @@ export class ReviewApp {
     this.threshold = new ThresholdControls(
       (setting) => this.host.post({ type: 'previewThreshold', setting }),
       (setting) => this.host.updateState({ threshold: setting }),
+      (preview) => this.queue.showPreview(preview?.candidates ?? null),
     );
     this.help = el(
       'div',

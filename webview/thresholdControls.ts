@@ -46,6 +46,8 @@ export class ThresholdControls {
   constructor(
     private readonly request: (setting: ThresholdSetting) => number,
     private readonly changed: (setting: ThresholdSetting) => void,
+    /** The preview on show (null: the run's own setting). */
+    private readonly previewShown: (preview: ThresholdPreviewResult | null) => void = () => undefined,
   ) {
     this.mode = el(
       'vscode-single-select',
@@ -139,6 +141,8 @@ export class ThresholdControls {
   }
 
   private showResult(preview: ThresholdPreviewResult, isRun: boolean): void {
+    const own = isRun || (this.baseline !== null && JSON.stringify(preview.setting) === JSON.stringify(this.baseline.setting));
+    this.previewShown(own ? null : preview);
     const share = preview.scored ? ((100 * preview.rejected) / preview.scored).toFixed(1) : '0';
     this.result.textContent = `${isRun ? 'This run: ' : 'Would reject '}${preview.rejected.toLocaleString()} of ${preview.scored.toLocaleString()} nodes (${share}%) · ${preview.candidatesKept} candidate${preview.candidatesKept === 1 ? '' : 's'} kept · ${preview.ungroupedRejected.toLocaleString()} ungrouped`;
   }

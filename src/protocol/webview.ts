@@ -115,6 +115,18 @@ export interface ThresholdPreviewResult {
   candidatesKept: number;
   /** Rejected nodes in no open candidate (they would need a new discovery run to be grouped). */
   ungroupedRejected: number;
+  /** Each of the run's candidates at this setting (absent where the host has no fit to preview from). */
+  candidates?: CandidatePreview[];
+}
+
+export interface CandidatePreview {
+  id: string;
+  /** Its members in the scored slice… */
+  members: number;
+  /** …of which this setting still rejects so many. */
+  stillRejected: number;
+  /** At least the minimum candidate size stays rejected: the candidate would remain. */
+  kept: boolean;
 }
 
 // ---- second look: doubtful labels and what to label next (docs/second-look.md) ----

@@ -15,7 +15,7 @@ import type { NoveltyMethod, RunSettings } from '../engine/pipeline/runSettings'
 import { docMargin } from '../engine/scoring/docThresholds';
 import { smoothNovelty } from '../engine/scoring/smoothing';
 import type { Dataset } from '../engine/dataset/types';
-import type { ThresholdPreviewResult, ThresholdSetting } from '../protocol/webview';
+import type { CandidatePreview, ThresholdPreviewResult, ThresholdSetting } from '../protocol/webview';
 
 export const defaultMinCandidateSize = 3;
 
@@ -35,6 +35,8 @@ export interface ThresholdPreviewInput {
   scoredNodes: Int32Array;
   /** Local member indices of each open candidate, for the candidate preview. */
   candidates?: Int32Array[];
+  /** Their ids, in the same order: the preview then reports each candidate. */
+  candidateIds?: string[];
   minCandidateSize?: number;
 }
 
@@ -108,31 +110,41 @@ export function createThresholdPreviewer(input: ThresholdPreviewInput): Threshol
       if (!inCandidate[node]) ungroupedRejected++;
     }
     let candidatesKept = 0;
-    for (const members of candidates) {
+    const perCandidate: CandidatePreview[] = [];
+    candidates.forEach((members, c) => {
       let count = 0;
       for (const node of members) count += isRejected[node];
       if (count >= minSize) candidatesKept++;
-    }
-    return { setting: { ...setting }, rejected, scored: input.scoredNodes.length, candidatesKept, ungroupedRejected };
+      const id = input.candidateIds?.[c];
+      if (id !== undefined) perCandidate.push({ id, members: members.length, stillRejected: count, kept: count >= minSize });
+    });
+    return {
+      setting: { ...setting },
+      rejected,
+      scored: input.scoredNodes.length,
+      candidatesKept,
+      ungroupedRejected,
+      ...(input.candidateIds ? { candidates: perCandidate } : {}),
+    };
   };
 }
 
 /**
- * Preview input from the fit a run was scored with. `candidateMembers` are global node indices
- * (the open candidates' members); nodes outside the fit's prefix are ignored.
+ * Preview input from the fit a run was scored with. `runCandidates` are the run's candidates with
+ * their members as global node indices; nodes outside the fit's prefix are ignored.
  */
 export function thresholdPreviewInputOf(
   dataset: Dataset,
   fit: PreviewFit,
   settings: Pick<RunSettings, 'noveltyMethod' | 'smoothingRounds'>,
-  candidateMembers: ArrayLike<number>[] = [],
+  runCandidates: { id: string; members: ArrayLike<number> }[] = [],
 ): ThresholdPreviewInput {
   const classCount = fit.modelClasses.length;
   const novelty: PreviewNovelty =
     settings.noveltyMethod === 'doc'
       ? { kind: 'doc', probabilities: fit.probabilities, classCount, thresholdFit: fit.thresholdFit }
       : { kind: 'fixed', noveltyRaw: fit.noveltyRaw };
-  const candidates = candidateMembers.map((members) =>
+  const candidates = runCandidates.map(({ members }) =>
     Int32Array.from(Array.from(members, (g) => fit.prefix.localIndex[g]).filter((l) => l >= 0)),
   );
   return {
@@ -142,6 +154,7 @@ export function thresholdPreviewInputOf(
     smoothingRounds: settings.smoothingRounds,
     scoredNodes: localNodesOfSlice(dataset, fit, fit.slice),
     candidates,
+    candidateIds: runCandidates.map((c) => c.id),
   };
 }
 

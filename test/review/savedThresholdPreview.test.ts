@@ -66,9 +66,10 @@ describe('review/threshold preview from a saved run', function () {
   it('previews from the saved fit exactly what the fit in memory previews, for every setting tried', async () => {
     const dataset = await loadDataset(folder);
     const run = await readRunForReview(dataset, runId);
-    const members = run.candidates.map((c) => c.members);
-    assert.ok(members.length > 0, 'the run has candidates to preview');
-    const inMemory = createThresholdPreviewer(thresholdPreviewInputOf(remembered.dataset, remembered.fit, remembered.settings, members));
+    assert.ok(run.candidates.length > 0, 'the run has candidates to preview');
+    const inMemory = createThresholdPreviewer(
+      thresholdPreviewInputOf(remembered.dataset, remembered.fit, remembered.settings, run.candidates),
+    );
     const fromDisk = await savedPreviewerOf(dataset, run);
     assert.ok(fromDisk, 'a previewer from the saved fit');
     const own = thresholdSettingOf(remembered.settings);

@@ -81,6 +81,28 @@ describe('review/thresholdPreview', () => {
     assert.ok(counts.size >= 3, `the settings tried should give different counts, got ${[...counts].join(', ')}`);
   });
 
+  it('reports each named candidate: how many of its members stay rejected, and whether it would remain', () => {
+    const input = { ...karateInput(), candidateIds: ['first', 'second'] };
+    const preview = createThresholdPreviewer(input);
+    const seen = new Set<string>();
+    for (const alpha of [0.5, 1, 2, 3, 6])
+      for (const lambda of [0, 0.5]) {
+        const setting: ThresholdSetting = { mode: 'alpha', alpha, quantile: 0.1, lambda };
+        const flags = recompute(input, setting);
+        const result = preview(setting);
+        const expected = input.candidates!.map((members, c) => {
+          const stillRejected = Array.from(members).filter((n) => flags[input.scoredNodes.indexOf(n)]).length;
+          return { id: input.candidateIds[c], members: 4, stillRejected, kept: stillRejected >= 2 };
+        });
+        assert.deepEqual(result.candidates, expected, JSON.stringify(setting));
+        assert.equal(result.candidatesKept, expected.filter((c) => c.kept).length);
+        seen.add(expected.map((c) => c.stillRejected).join('/'));
+      }
+    assert.ok(seen.size >= 2, `the settings tried should change the candidates' counts, got ${[...seen].join(', ')}`);
+    // Without ids the preview reports counts only.
+    assert.equal(createThresholdPreviewer(karateInput())({ mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 }).candidates, undefined);
+  });
+
   it('rejects no more nodes as α grows (thresholds max(0.5, 1 − ασ) only fall) without smoothing', () => {
     const preview = createThresholdPreviewer(karateInput());
     let previous = Infinity;

@@ -425,6 +425,7 @@ describe('webview/review panel (Chromium)', function () {
       smoothingRounds: 2,
       scoredNodes: Int32Array.from(context.nodeIds.keys()),
       candidates: scenarioCandidates(scenario).map((c) => c.members),
+      candidateIds: scenarioCandidates(scenario).map((c) => c.id),
     });
     const setting: ThresholdSetting = { mode: 'quantile', alpha: 3, quantile: 0.1, lambda: 0.5 };
     const p = await open({ previewThreshold: previewer, baseline: previewer(setting) });
@@ -437,6 +438,24 @@ describe('webview/review panel (Chromium)', function () {
     const expected = previewer({ ...setting, quantile: 0.25 });
     assert.equal(expected.rejected, 37, 'round(0.25 × 148)');
     await page.locator('#threshold-result', { hasText: `Would reject ${expected.rejected} of 148` }).waitFor();
+    // Each open candidate says how many of its members the previewed setting still rejects.
+    assert.equal(await page.locator('#queue-list .queue-preview').count(), expected.candidates!.length);
+    for (const c of expected.candidates!) {
+      const mark = page.locator(`#queue-list .queue-item[data-candidate="${c.id}"] .queue-preview`);
+      assert.equal(await mark.textContent(), `→ ${c.stillRejected} of ${c.members} still rejected${c.kept ? '' : ': would go'}`);
+    }
+    // A quantile that rejects almost nothing drops candidates, and says so.
+    await page.locator('#threshold-quantile').fill('0.01');
+    const few = previewer({ ...setting, quantile: 0.01 });
+    assert.ok(
+      few.candidates!.some((c) => !c.kept),
+      'some candidate would go at 1%',
+    );
+    await page.locator('#queue-list .queue-preview.drops').first().waitFor();
+    assert.equal(await page.locator('#queue-list .queue-preview.drops').count(), few.candidates!.filter((c) => !c.kept).length);
+    // Back to the run's own setting: the marks go.
+    await page.locator('#threshold-reset').click();
+    await page.locator('#queue-list .queue-preview').first().waitFor({ state: 'detached' });
   });
 
   it('returns to the candidate, search and rejection setting it had before being hidden', async () => {

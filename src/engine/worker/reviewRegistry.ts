@@ -212,8 +212,7 @@ async function restoreSession(
 }
 
 function previewerOf(remembered: RememberedFit, run: RunForReview): ThresholdPreviewer {
-  const members = run.candidates.map((c) => c.members);
-  return createThresholdPreviewer(thresholdPreviewInputOf(remembered.dataset, remembered.fit, remembered.settings, members));
+  return createThresholdPreviewer(thresholdPreviewInputOf(remembered.dataset, remembered.fit, remembered.settings, run.candidates));
 }
 
 /** Without the fit, the panel still shows the run's own setting and counts. */

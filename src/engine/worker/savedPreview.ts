@@ -13,8 +13,7 @@ export async function savedPreviewerOf(dataset: Dataset, run: RunForReview): Pro
   try {
     const saved = await readThresholdFit(run.runFolder, dataset);
     if (!saved) return null;
-    const members = run.candidates.map((c) => c.members);
-    return createThresholdPreviewer(thresholdPreviewInputOf(dataset, saved.fit, saved, members));
+    return createThresholdPreviewer(thresholdPreviewInputOf(dataset, saved.fit, saved, run.candidates));
   } catch {
     return null;
   }
