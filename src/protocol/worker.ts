@@ -79,6 +79,8 @@ export interface OpenReviewOutcome {
   slice: string;
   /** Threshold previews need the fit kept in memory since the slice was scored in this worker. */
   previewAvailable: boolean;
+  /** Why the fit saved beside the run could not be read (the file and, for bad JSON, line and column). */
+  previewProblem?: string;
 }
 
 export interface ReviewMessageOutcome {

@@ -19,6 +19,8 @@ export interface ReviewHostActions {
   persist?(session: ReviewSessionJson): unknown;
   /** Absent when the run's scores are not at hand: the panel then says previews are unavailable. */
   previewThreshold?(setting: ThresholdSetting): ThresholdPreviewResult | Promise<ThresholdPreviewResult>;
+  /** Why previews are off, when the host knows (e.g. the saved fit is damaged). */
+  previewUnavailable?: string;
   /** Writes the decisions file (asking where); resolves to the message shown, e.g. the path. */
   exportDecisions(file: DecisionsFile): Promise<string>;
   /** Runs the apply path on the decisions; resolves to the message shown. */
@@ -97,7 +99,11 @@ export class ReviewController {
         return;
       case 'previewThreshold': {
         if (!this.actions.previewThreshold)
-          throw new ReviewError('threshold previews need the run’s scores; score the slice again to use them');
+          throw new ReviewError(
+            this.actions.previewUnavailable
+              ? `threshold previews are off: ${this.actions.previewUnavailable}; score the slice again to use them`
+              : 'threshold previews need the run’s scores; score the slice again to use them',
+          );
         const preview = await this.actions.previewThreshold(message.setting);
         this.actions.post({ type: 'thresholdPreview', requestId: message.requestId, preview });
         return;

@@ -70,7 +70,7 @@ describe('review/threshold preview from a saved run', function () {
     const inMemory = createThresholdPreviewer(
       thresholdPreviewInputOf(remembered.dataset, remembered.fit, remembered.settings, run.candidates),
     );
-    const fromDisk = await savedPreviewerOf(dataset, run);
+    const fromDisk = (await savedPreviewerOf(dataset, run)).previewer;
     assert.ok(fromDisk, 'a previewer from the saved fit');
     const own = thresholdSettingOf(remembered.settings);
     for (const setting of [own, ...settingsTried]) assert.deepEqual(fromDisk(setting), inMemory(setting), JSON.stringify(setting));
@@ -91,8 +91,36 @@ describe('review/threshold preview from a saved run', function () {
     try {
       const without = await new ReviewRegistry().open({ folder, runId, persistPath: null }, (f) => loadDataset(f));
       assert.equal(without.previewAvailable, false);
+      assert.equal(without.previewProblem, undefined, 'a run without the file is not a problem');
     } finally {
       await fs.rename(aside, saved);
+    }
+  });
+
+  it('says which file is damaged, at which line and column, and the panel’s preview request says so too', async () => {
+    const runFolder = path.join(folder, 'runs', runId);
+    const saved = path.join(runFolder, thresholdFitFileName);
+    const original = await fs.readFile(saved, 'utf8');
+    try {
+      // A truncated copy: the file ends on its second line, inside an object.
+      const pretty = JSON.stringify(JSON.parse(original), null, 1).split('\n');
+      await fs.writeFile(saved, `${pretty[0]}\n${pretty[1]}`);
+      const registry = new ReviewRegistry();
+      const opened = await registry.open({ folder, runId, persistPath: null }, (f) => loadDataset(f));
+      assert.equal(opened.previewAvailable, false);
+      assert.match(opened.previewProblem ?? '', new RegExp(`${thresholdFitFileName.replace('.', '\\.')}:2:\\d+: `));
+      const outcome = await registry.message(opened.reviewId, {
+        type: 'previewThreshold',
+        requestId: 1,
+        setting: settingsTried[0],
+      });
+      const failed = outcome.posts.find((m) => m.type === 'error');
+      assert.match(
+        failed?.type === 'error' ? failed.message : '',
+        /threshold previews are off: .*threshold-fit\.json:2:\d+: .*score the slice again/,
+      );
+    } finally {
+      await fs.writeFile(saved, original);
     }
   });
 });

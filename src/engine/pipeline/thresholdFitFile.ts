@@ -13,6 +13,7 @@
 // the JSON has no saved fit, and one with it has all its files.
 import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
+import { parseJsonWithPositions } from '../dataset/jsonPositions';
 import type { Dataset } from '../dataset/types';
 import { writeFileAtomic } from '../io/atomicWrite';
 import { encodeNpy, parseNpy } from '../io/npy';
@@ -120,6 +121,8 @@ export async function readThresholdFit(runFolder: string, dataset: Dataset): Pro
   try {
     json = JSON.parse(text) as ThresholdFitJson;
   } catch (error) {
+    // Parsed again only to say where: the located parser throws naming file, line and column.
+    parseJsonWithPositions(text, file);
     throw new Error(`${file}: ${(error as Error).message}`);
   }
   if (json?.format !== format || json.version !== version) throw new Error(`${file}: not a ${format} file of version ${version}`);

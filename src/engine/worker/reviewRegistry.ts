@@ -80,7 +80,9 @@ export class ReviewRegistry {
     const dataset = remembered && !request.appliedIds ? remembered.dataset : await loadDataset(request.folder);
     const run = await readRunForReview(dataset, request.runId);
     const { session, restoredFrom, restoreProblem } = await restoreSession(run, request);
-    const previewer = remembered ? previewerOf(remembered, run) : await savedPreviewerOf(dataset, run);
+    const { previewer, problem: previewProblem } = remembered
+      ? { previewer: previewerOf(remembered, run) }
+      : await savedPreviewerOf(dataset, run);
     const baseline = previewer ? previewer(thresholdSettingOf(run.record.settings)) : baselineOf(run);
     const review: OpenReview = {
       folder: request.folder,
@@ -100,6 +102,7 @@ export class ReviewRegistry {
           review.changed = json;
         },
         ...(previewer ? { previewThreshold: previewer } : {}),
+        ...(previewProblem ? { previewUnavailable: previewProblem } : {}),
         // The host answers these itself (file dialogs, the apply preview, opening an editor).
         exportDecisions: () => Promise.reject(new Error('exporting decisions is done by the extension host')),
         applyDecisions: () => Promise.reject(new Error('applying decisions is done by the extension host')),
@@ -120,6 +123,7 @@ export class ReviewRegistry {
       dataset: run.record.dataset,
       slice: run.record.slice,
       previewAvailable: previewer !== null,
+      ...(previewProblem ? { previewProblem } : {}),
     };
   }
 

@@ -6,15 +6,19 @@ import { createThresholdPreviewer, thresholdPreviewInputOf, type ThresholdPrevie
 import type { RunForReview } from './runForReview';
 
 /**
- * Null when the run has no saved fit, or one that no longer fits the dataset: the panel then says
- * to score the slice again, as it did before runs saved their fit.
+ * No previewer when the run has no saved fit (a run saved before runs kept it), or one that is
+ * damaged or no longer fits the dataset: `problem` then says which file and why, and the panel
+ * says to score the slice again.
  */
-export async function savedPreviewerOf(dataset: Dataset, run: RunForReview): Promise<ThresholdPreviewer | null> {
+export async function savedPreviewerOf(
+  dataset: Dataset,
+  run: RunForReview,
+): Promise<{ previewer: ThresholdPreviewer | null; problem?: string }> {
   try {
     const saved = await readThresholdFit(run.runFolder, dataset);
-    if (!saved) return null;
-    return createThresholdPreviewer(thresholdPreviewInputOf(dataset, saved.fit, saved, run.candidates));
-  } catch {
-    return null;
+    if (!saved) return { previewer: null };
+    return { previewer: createThresholdPreviewer(thresholdPreviewInputOf(dataset, saved.fit, saved, run.candidates)) };
+  } catch (error) {
+    return { previewer: null, problem: (error as Error).message };
   }
 }

@@ -74,6 +74,8 @@ export class ReviewRelay {
       this.opened = this.engine.openReview({ ...this.params, ...(saved === undefined ? {} : { saved }) }).then((outcome) => {
         this.latestSession = outcome.session;
         this.host.saveSession(outcome.session);
+        if (outcome.previewProblem)
+          this.host.log(`review of run ${this.params.runId}: threshold previews are off: ${outcome.previewProblem}`);
         if (outcome.restoreProblem)
           this.host.log(`review of run ${this.params.runId}: the saved pending decisions could not be restored: ${outcome.restoreProblem}`);
         return outcome;
