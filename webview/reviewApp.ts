@@ -24,6 +24,8 @@ export class ReviewApp {
   private readonly help: HTMLElement;
   private readonly queue: QueueView;
   private readonly summary = new SummaryView();
+  /** A decision, undo or redo was posted and the host has not answered yet. */
+  private changing = false;
   private readonly graph: GraphView;
   private readonly table: MemberTable;
   private readonly decisions: DecisionPanel;
@@ -53,17 +55,17 @@ export class ReviewApp {
         }),
     });
     this.decisions = new DecisionPanel({
-      decide: (decision) => this.busy(this.host.post({ type: 'decide', decision }), 'Recording decision…'),
-      undo: () => this.busy(this.host.post({ type: 'undo' }), 'Undoing…'),
-      redo: () => this.busy(this.host.post({ type: 'redo' }), 'Redoing…'),
+      decide: (decision) => this.change(() => this.host.post({ type: 'decide', decision }), 'Recording decision…'),
+      undo: () => this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
+      redo: () => this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
       selectedMembers: () => this.table.selectedIds(),
     });
     this.secondLook = new SecondLookPanel(
       {
-        decide: (decision) => this.busy(this.host.post({ type: 'decide', decision }), 'Recording decision…'),
+        decide: (decision) => this.change(() => this.host.post({ type: 'decide', decision }), 'Recording decision…'),
         load: () => this.loadSecondLook(),
-        undo: () => this.busy(this.host.post({ type: 'undo' }), 'Undoing…'),
-        redo: () => this.busy(this.host.post({ type: 'redo' }), 'Redoing…'),
+        undo: () => this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
+        redo: () => this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
         currentChanged: (kind, node) =>
           this.host.updateState({ secondLookNode: { ...this.host.state.secondLookNode, [kind]: node ?? undefined } }),
       },
@@ -145,6 +147,7 @@ export class ReviewApp {
   private receive(message: HostToWebviewMessage): void {
     switch (message.type) {
       case 'snapshot':
+        this.changing = false;
         this.show(message.snapshot);
         this.setStatus('');
         return;
@@ -152,9 +155,11 @@ export class ReviewApp {
         this.threshold.receive(message.requestId, message.preview);
         return;
       case 'done':
+        this.changing = false;
         this.setStatus(message.message);
         return;
       case 'error':
+        this.changing = false;
         if (message.requestId !== undefined) this.threshold.failed(message.requestId);
         this.setStatus(message.message, true);
         return;
@@ -264,6 +269,16 @@ export class ReviewApp {
   private busy(requestId: number, message: string): void {
     void requestId;
     this.setStatus(message);
+  }
+
+  /**
+   * A decision, undo or redo: one at a time. A second one before the host's answer (a double
+   * press) would act on the state the first one changes: it is dropped.
+   */
+  private change(post: () => number, message: string): void {
+    if (this.changing) return;
+    this.changing = true;
+    this.busy(post(), message);
   }
 
   private setStatus(message: string, isError = false): void {

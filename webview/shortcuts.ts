@@ -55,9 +55,20 @@ export const shortcuts: Shortcut[] = [
   { action: 'close', keys: ['Escape'], label: 'Esc', description: 'close form or help' },
 ];
 
-export function actionOfKey(event: KeyboardEvent): Action | null {
+/**
+ * The shortcut of a key press. Letters go by the key pressed with Shift, not with Caps Lock (so
+ * Caps Lock does not turn undo into redo), and by the key's place on the keyboard where the
+ * layout types no Latin letter there.
+ */
+export function actionOfKey(event: Pick<KeyboardEvent, 'key' | 'code' | 'shiftKey' | 'ctrlKey' | 'metaKey' | 'altKey'>): Action | null {
   if (event.ctrlKey || event.metaKey || event.altKey) return null;
-  return shortcuts.find((s) => s.keys.includes(event.key))?.action ?? null;
+  let key = event.key;
+  if (key.length === 1 && key.toLowerCase() !== key.toUpperCase()) {
+    const placed = /^Key([A-Z])$/.exec(event.code)?.[1];
+    const letter = /^[a-z]$/i.test(key) ? key : (placed ?? key);
+    key = event.shiftKey ? letter.toUpperCase() : letter.toLowerCase();
+  }
+  return shortcuts.find((s) => s.keys.includes(key))?.action ?? null;
 }
 
 export function shortcutLabel(action: Action): string {

@@ -240,6 +240,25 @@ describe('webview/review panel (Chromium)', function () {
     assert.deepEqual(await p.violations(), []);
   });
 
+  it('records one decision for a double press made before the host answers', async () => {
+    const p = await open();
+    const [first, second] = openIds(p);
+    const mark = p.posted.length;
+    // Two presses in one task: the second comes before any answer can.
+    await p.page.evaluate(() => {
+      for (let k = 0; k < 2; k++) document.dispatchEvent(new KeyboardEvent('keydown', { key: 'l', code: 'KeyL', bubbles: true }));
+    });
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'skip', candidateId: first });
+    await settled(p, 1);
+    await p.page.locator('#candidate-title', { hasText: second }).waitFor();
+    await p.page.waitForTimeout(300);
+    assert.equal(p.posted.slice(mark).filter((m) => (m as { type: string }).type === 'decide').length, 1);
+    // Once answered, the next press counts again.
+    const again = p.posted.length;
+    await p.page.keyboard.press('l');
+    assert.deepEqual(await decisionAfter(p, again), { kind: 'skip', candidateId: second });
+  });
+
   it('records each decision made with the keyboard, and lists the shortcuts', async () => {
     const p = await open();
     const page = p.page;
