@@ -1,7 +1,8 @@
 // The graph the panel draws for one candidate: its members and their one-hop neighbours, with
 // the links among them. Capped so that a large candidate in a dense graph stays a payload the
 // webview can take: links among members first (they show the candidate's own shape), then links
-// to outside nodes, in node order, until `edgeCap` links are kept.
+// to outside nodes taken in turns, one per member per turn, until `edgeCap` links are kept, so
+// that every member shows some of its outside neighbours rather than the first members all.
 import type { CsrMatrix } from '../engine/graph/csr';
 import { neighbourhoodEdgeCap } from '../protocol/webview';
 
@@ -55,15 +56,26 @@ export function neighbourhoodOf(adjacency: CsrMatrix, members: ArrayLike<number>
       }
     }
   }
+  // Outside links: counted all, then taken in turns (each member's next one per turn).
+  const isOutside = (e: number) => {
+    const j = position.get(colIndex[e]);
+    return j === undefined || j >= memberCount;
+  };
+  const cursor = new Int32Array(memberCount);
   for (let i = 0; i < memberCount; i++) {
     const node = nodes[i];
-    for (let e = rowPtr[node]; e < rowPtr[node + 1]; e++) {
-      const other = colIndex[e];
-      const j = position.get(other);
-      if (j !== undefined && j < memberCount) continue;
-      totalEdges++;
-      if (source.length >= edgeCap) continue;
-      let at = j;
+    cursor[i] = rowPtr[node];
+    for (let e = rowPtr[node]; e < rowPtr[node + 1]; e++) if (isOutside(e)) totalEdges++;
+  }
+  let progress = true;
+  while (progress && source.length < edgeCap) {
+    progress = false;
+    for (let i = 0; i < memberCount && source.length < edgeCap; i++) {
+      const end = rowPtr[nodes[i] + 1];
+      while (cursor[i] < end && !isOutside(cursor[i])) cursor[i]++;
+      if (cursor[i] >= end) continue;
+      const other = colIndex[cursor[i]++];
+      let at = position.get(other);
       if (at === undefined) {
         at = nodes.length;
         position.set(other, at);
@@ -71,6 +83,7 @@ export function neighbourhoodOf(adjacency: CsrMatrix, members: ArrayLike<number>
       }
       source.push(i);
       target.push(at);
+      progress = true;
     }
   }
   return { nodes, memberCount, source, target, totalEdges };
