@@ -87,6 +87,8 @@ export class ThresholdControls {
     }
     if (first) {
       this.setting = { ...(saved ?? baseline.setting) };
+      // A run scored with a wider α than the slider's usual range gets a slider that reaches it.
+      this.alpha.input.max = String(Math.max(10, Math.ceil(this.setting.alpha), Math.ceil(baseline.setting.alpha)));
       this.syncInputs();
       if (saved && JSON.stringify(saved) !== JSON.stringify(baseline.setting)) this.send();
       else this.showResult(baseline, true);
@@ -106,6 +108,11 @@ export class ThresholdControls {
   failed(requestId: number): boolean {
     if (requestId !== this.inFlight) return false;
     this.inFlight = null;
+    // The setting moved on while this one failed: ask for the newest one.
+    if (this.queued) {
+      this.queued = false;
+      this.send();
+    }
     return true;
   }
 

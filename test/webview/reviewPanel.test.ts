@@ -477,6 +477,21 @@ describe('webview/review panel (Chromium)', function () {
     await page.locator('#queue-list .queue-preview').first().waitFor({ state: 'detached' });
   });
 
+  it('gives a run scored with a wide α a slider that reaches it', async () => {
+    const baseline = {
+      setting: { mode: 'alpha', alpha: 24, quantile: 0.1, lambda: 0.5 },
+      rejected: 3,
+      scored: 148,
+      candidatesKept: 1,
+      ungroupedRejected: 0,
+    } as const;
+    const p = await open({ baseline: { ...baseline, setting: { ...baseline.setting } } });
+    const alpha = p.page.locator('#threshold-alpha');
+    assert.equal(await alpha.getAttribute('max'), '24');
+    assert.equal(await alpha.inputValue(), '24');
+    assert.equal(await p.page.locator('#threshold-alpha-value').textContent(), '24.0');
+  });
+
   it('returns to the candidate, search and rejection setting it had before being hidden', async () => {
     const second = scenarioCandidates(scenario)[1].id;
     const p = await open({ savedState: { candidateId: second, search: 'feathers', sortColumn: 'id', sortDescending: false } });
