@@ -6,7 +6,7 @@ import { el, onFormKeys, replaceChildren } from './dom';
 import { shortcutLabel, type Action } from './shortcuts';
 
 type Field = HTMLElement & { value: string };
-export type FormKind = 'name' | 'mergeInto' | 'mergeWith' | 'move';
+export type FormKind = 'name' | 'mergeInto' | 'mergeWith' | 'split' | 'move';
 const newClassOption = '__new-class__';
 
 export interface DecisionPanelEvents {
@@ -53,7 +53,7 @@ export class DecisionPanel {
       add('decide-name', 'Name new class', 'name', () => this.show('name')),
       add('decide-merge-into', 'Merge into class', 'mergeInto', () => this.show('mergeInto')),
       add('decide-merge-with', 'Merge with candidate', 'mergeWith', () => this.show('mergeWith')),
-      add('decide-split', 'Split', 'split', () => this.split()),
+      add('decide-split', 'Split', 'split', () => this.show('split')),
       add('decide-move', 'Move selected', 'move', () => this.show('move')),
       add('decide-dismiss', 'Dismiss as noise', 'dismiss', () => this.simple('dismiss'), true),
       add('decide-skip', 'Skip', 'skip', () => this.simple('skip'), true),
@@ -111,7 +111,7 @@ export class DecisionPanel {
       case 'move':
         return this.whenEnabled('decide-move', () => this.show('move'));
       case 'split':
-        return this.whenEnabled('decide-split', () => this.split());
+        return this.whenEnabled('decide-split', () => this.show('split'));
       case 'dismiss':
         return this.whenEnabled('decide-dismiss', () => this.simple('dismiss'));
       case 'skip':
@@ -139,10 +139,6 @@ export class DecisionPanel {
 
   private simple(kind: 'dismiss' | 'skip'): void {
     if (this.candidateId) this.events.decide({ kind, candidateId: this.candidateId });
-  }
-
-  private split(): void {
-    if (this.candidateId) this.events.decide({ kind: 'split-candidate', candidateId: this.candidateId, parts: 2 });
   }
 
   private classSelect(id: string, withNew: boolean): Field {
@@ -197,6 +193,25 @@ export class DecisionPanel {
         ) as Field;
         first = select;
         replaceChildren(this.form, el('span', { class: 'form-title' }, `Merge ${this.candidateId} with`), select, confirm, cancel);
+        break;
+      }
+      case 'split': {
+        // Into 2 … 20 parts (the session's limit), never more parts than members.
+        const size = this.queue.find((q) => q.id === this.candidateId)?.size ?? 2;
+        const most = Math.max(2, Math.min(20, size));
+        const select = el(
+          'vscode-single-select',
+          { id: 'split-parts', 'aria-label': 'Parts' },
+          ...Array.from({ length: most - 1 }, (_, k) => el('vscode-option', { value: String(k + 2) }, `${k + 2} parts`)),
+        ) as Field;
+        first = select;
+        replaceChildren(
+          this.form,
+          el('span', { class: 'form-title' }, `Split ${this.candidateId} (re-group its members) into`),
+          select,
+          confirm,
+          cancel,
+        );
         break;
       }
       case 'move': {
@@ -274,6 +289,9 @@ export class DecisionPanel {
         decision = { kind: 'merge-candidates', candidateIds: [candidateId, other] };
         break;
       }
+      case 'split':
+        decision = { kind: 'split-candidate', candidateId, parts: Number(this.value('split-parts')) || 2 };
+        break;
       case 'move': {
         const members = this.events.selectedMembers();
         if (members.length === 0) return;

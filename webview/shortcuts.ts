@@ -37,7 +37,7 @@ export const shortcuts: Shortcut[] = [
   { action: 'name', keys: ['n'], label: 'N', description: 'name as new class' },
   { action: 'mergeInto', keys: ['m'], label: 'M', description: 'merge into a class' },
   { action: 'mergeWith', keys: ['c'], label: 'C', description: 'merge with a candidate' },
-  { action: 'split', keys: ['s'], label: 'S', description: 'split in two' },
+  { action: 'split', keys: ['s'], label: 'S', description: 'split (re-group) into parts' },
   { action: 'move', keys: ['v'], label: 'V', description: 'move selected members' },
   { action: 'dismiss', keys: ['d'], label: 'D', description: 'dismiss as noise' },
   { action: 'skip', keys: ['l'], label: 'L', description: 'skip (later)' },

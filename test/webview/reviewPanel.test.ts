@@ -187,7 +187,11 @@ describe('webview/review panel (Chromium)', function () {
 
     mark = p.posted.length;
     await page.locator('#decide-split').click();
-    assert.deepEqual(await decisionAfter(p, mark), { kind: 'split-candidate', candidateId: merged, parts: 2 });
+    await page.locator('#split-parts').evaluate((select) => {
+      (select as HTMLElement & { value: string }).value = '3';
+    });
+    await page.locator('#confirm-split').click();
+    assert.deepEqual(await decisionAfter(p, mark), { kind: 'split-candidate', candidateId: merged, parts: 3 });
     await settled(p, 4);
     assert.equal(await page.locator('#candidate-title').textContent(), `${merged}.1`);
 
@@ -305,6 +309,8 @@ describe('webview/review panel (Chromium)', function () {
     mark = p.posted.length;
     await page.locator('body').click({ position: { x: 5, y: 5 } });
     await page.keyboard.press('s');
+    await page.locator('#split-parts').waitFor();
+    await page.keyboard.press('Enter');
     assert.deepEqual(await decisionAfter(p, mark), { kind: 'split-candidate', candidateId: merged, parts: 2 });
     await settled(p, 3);
 
