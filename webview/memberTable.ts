@@ -95,6 +95,8 @@ export class MemberTable {
   private sortDescending = true;
   private frame = 0;
   private lastClicked = -1;
+  /** The row the arrow keys are on (a position in `order`), −1 before the first arrow key. */
+  private active = -1;
 
   constructor(private readonly events: MemberTableEvents) {
     this.search = el('vscode-textfield', {
@@ -114,7 +116,14 @@ export class MemberTable {
       this.selectionChanged();
     });
     this.header = el('div', { class: 'member-row member-header', role: 'row' });
-    this.viewport = el('div', { class: 'member-viewport', id: 'member-viewport', role: 'rowgroup', tabindex: 0 });
+    this.viewport = el('div', {
+      class: 'member-viewport',
+      id: 'member-viewport',
+      role: 'rowgroup',
+      tabindex: 0,
+      title: 'Arrow keys, Page Up/Down, Home and End move through the members; Space selects (Shift+arrow extends); Enter shows the node',
+    });
+    this.viewport.addEventListener('keydown', (event) => this.onKey(event));
     this.spacer = el('div', { class: 'member-spacer' });
     this.rows = el('div', { class: 'member-rows' });
     this.spacer.append(this.rows);
@@ -142,6 +151,7 @@ export class MemberTable {
     if (candidateId !== this.candidateId) {
       this.selected.clear();
       this.lastClicked = -1;
+      this.active = -1;
     } else if (graph !== this.graph) {
       // The same candidate with other members (a move, an undo): the selection follows the node
       // ids, not the row positions, and drops members that left.
@@ -235,7 +245,49 @@ export class MemberTable {
     this.count.textContent = graph ? `${this.order.length} of ${graph.memberCount} members · ${this.selected.size} selected` : '';
     this.spacer.style.height = `${this.order.length * rowHeight}px`;
     if (scroll !== undefined) this.viewport.scrollTop = scroll;
+    this.active = Math.min(this.active, this.order.length - 1);
     this.render();
+  }
+
+  /** Keyboard use of the table: move the active row, select, show its node. */
+  private onKey(event: KeyboardEvent): void {
+    if (event.ctrlKey || event.metaKey || event.altKey || this.order.length === 0) return;
+    const page = Math.max(1, Math.floor(this.viewport.clientHeight / rowHeight) - 1);
+    const moves: Record<string, number> = { ArrowDown: 1, ArrowUp: -1, PageDown: page, PageUp: -page };
+    let next = this.active;
+    if (event.key in moves) next = this.active < 0 ? 0 : this.active + moves[event.key];
+    else if (event.key === 'Home') next = 0;
+    else if (event.key === 'End') next = this.order.length - 1;
+    else if (event.key === ' ' && this.active >= 0) {
+      event.preventDefault();
+      this.toggle(this.order[this.active], this.active, false);
+      return;
+    } else if (event.key === 'Enter' && this.active >= 0) {
+      event.preventDefault();
+      this.events.focusNode(this.order[this.active]);
+      return;
+    } else return;
+    event.preventDefault();
+    next = Math.max(0, Math.min(this.order.length - 1, next));
+    if (event.shiftKey && this.active >= 0 && next !== this.active) {
+      const [from, to] = this.active < next ? [this.active, next] : [next, this.active];
+      for (let r = from; r <= to; r++) this.selected.add(this.order[r]);
+      this.lastClicked = next;
+      this.active = next;
+      this.scrollToActive();
+      this.selectionChanged();
+      return;
+    }
+    this.active = next;
+    this.scrollToActive();
+    this.render();
+  }
+
+  private scrollToActive(): void {
+    const top = this.active * rowHeight;
+    if (top < this.viewport.scrollTop) this.viewport.scrollTop = top;
+    else if (top + rowHeight > this.viewport.scrollTop + this.viewport.clientHeight)
+      this.viewport.scrollTop = top + rowHeight - this.viewport.clientHeight;
   }
 
   private schedule(): void {
@@ -265,6 +317,8 @@ export class MemberTable {
     const fragment = document.createDocumentFragment();
     for (let r = first; r < last; r++) fragment.append(this.row(graph, this.order[r], r));
     this.rows.replaceChildren(fragment);
+    if (this.active >= first && this.active < last) this.viewport.setAttribute('aria-activedescendant', `member-row-${this.active}`);
+    else this.viewport.removeAttribute('aria-activedescendant');
   }
 
   private row(graph: NeighbourhoodGraph, i: number, rowIndex: number): HTMLElement {
@@ -277,7 +331,8 @@ export class MemberTable {
     const row = el(
       'div',
       {
-        class: `member-row${this.selected.has(i) ? ' selected' : ''}`,
+        class: `member-row${this.selected.has(i) ? ' selected' : ''}${rowIndex === this.active ? ' active' : ''}`,
+        id: `member-row-${rowIndex}`,
         role: 'row',
         'data-node': graph.nodes.ids[i],
         'aria-rowindex': rowIndex + 1,

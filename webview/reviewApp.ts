@@ -81,6 +81,11 @@ export class ReviewApp {
       { class: 'help-overlay', id: 'help-overlay', role: 'dialog', 'aria-label': 'Keyboard shortcuts', hidden: true },
       el('h2', {}, 'Keyboard shortcuts'),
       el('dl', {}, ...shortcuts.flatMap((s) => [el('dt', {}, el('kbd', {}, s.label)), el('dd', {}, s.description)])),
+      el(
+        'p',
+        { class: 'help-table-keys' },
+        'In the member table: ↑ ↓, Page Up, Page Down, Home and End move; Space selects; Shift with an arrow extends the selection; Enter shows the node in the graph’s box.',
+      ),
       el('p', { class: 'muted' }, 'Shift-click rows to select a range; double-click a row or a graph node to open it.'),
     );
     const helpStrip = el(

@@ -244,6 +244,33 @@ describe('webview/review panel (Chromium)', function () {
     assert.deepEqual(await p.violations(), []);
   });
 
+  it('works the member table from the keyboard: move, select, extend, show, then move the selection to a class', async () => {
+    const p = await open();
+    const page = p.page;
+    await page.locator('#member-viewport').focus();
+    const ids = await page.locator('.member-rows .member-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-node')));
+    await page.keyboard.press('ArrowDown');
+    await page.keyboard.press('ArrowDown');
+    assert.equal(await page.locator('.member-row.active').getAttribute('data-node'), ids[1]);
+    assert.equal(await page.locator('#member-viewport').getAttribute('aria-activedescendant'), 'member-row-1');
+    await page.keyboard.press(' ');
+    await page.keyboard.press('Shift+ArrowDown');
+    await page.waitForFunction(() => /· 2 selected$/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    const checked = await page.locator('.member-row.selected').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-node')));
+    assert.deepEqual(checked, [ids[1], ids[2]]);
+    await page.keyboard.press('Enter');
+    await page.locator('#graph-tooltip .tooltip-title', { hasText: ids[2] ?? '' }).waitFor();
+    await page.keyboard.press('End');
+    assert.equal(await page.locator('.member-row.active').getAttribute('aria-rowindex'), '18');
+    const mark = p.posted.length;
+    await page.keyboard.press('v');
+    await page.locator('#move-class').waitFor();
+    await page.keyboard.press('Enter');
+    const move = await decisionAfter(p, mark);
+    assert.equal(move.kind, 'move-members');
+    assert.deepEqual([...(move.members as string[])].sort(), [ids[1], ids[2]].sort());
+  });
+
   it('records one decision for a double press made before the host answers', async () => {
     const p = await open();
     const [first, second] = openIds(p);
