@@ -11,7 +11,7 @@ import { buildScenario, largeScenario, scenarioCandidates, type ReviewScenario }
 import { classColour } from '../../webview/classPalette';
 import { launchBrowser, openPanel, screenshotFolder, type Panel, type PanelOptions } from './panelHarness';
 import { blobsOfColour, decodePng } from './pngPixels';
-import { darkTheme, lightTheme } from './themes';
+import { darkTheme, highContrastTheme, lightTheme } from './themes';
 
 describe('webview/review panel (Chromium)', function () {
   this.timeout(120_000);
@@ -542,11 +542,12 @@ describe('webview/review panel (Chromium)', function () {
   for (const [name, theme] of [
     ['light', lightTheme],
     ['dark', darkTheme],
+    ['high-contrast', highContrastTheme],
   ] as const) {
     it(`renders in the ${name} theme from the --vscode-* variables (screenshot saved)`, async () => {
       const p = await open({
         theme,
-        themeKind: name,
+        themeKind: name === 'light' ? 'light' : 'dark',
         baseline: {
           setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
           rejected: 38,
@@ -568,6 +569,16 @@ describe('webview/review panel (Chromium)', function () {
       const file = path.join(screenshotFolder, `review-panel-${name}.png`);
       await page.screenshot({ path: file });
       assert.ok(statSync(file).size > 20_000, 'a screenshot of the whole panel');
+      if (name === 'high-contrast') {
+        // No selection backgrounds here: the current candidate and a selected row show by outline.
+        const outline = (selector: string) =>
+          page
+            .locator(selector)
+            .first()
+            .evaluate((e) => `${getComputedStyle(e).outlineStyle} ${getComputedStyle(e).outlineColor}`);
+        assert.equal(await outline('.queue-item.current'), 'solid rgb(243, 133, 24)');
+        assert.equal(await outline('.member-row.selected'), 'dashed rgb(243, 133, 24)');
+      }
       assert.deepEqual(await p.violations(), []);
     });
   }

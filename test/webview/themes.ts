@@ -104,3 +104,25 @@ export const darkTheme: Theme = {
   '--vscode-keybindingLabel-background': '#8080802b',
   '--vscode-keybindingLabel-foreground': '#cccccc',
 };
+
+/**
+ * VS Code's dark high-contrast theme, as far as the panel reads it (from memory): black
+ * background, white text, no selection backgrounds, orange active borders and cyan contrast
+ * borders; the panel must show the current candidate and selected rows by outline alone.
+ */
+export const highContrastTheme: Theme = {
+  ...darkTheme,
+  '--vscode-foreground': '#ffffff',
+  '--vscode-descriptionForeground': '#ffffff',
+  '--vscode-editor-background': '#000000',
+  '--vscode-editor-foreground': '#ffffff',
+  '--vscode-sideBar-background': '#000000',
+  '--vscode-panel-border': '#6fc3df',
+  '--vscode-widget-border': '#6fc3df',
+  '--vscode-focusBorder': '#f38518',
+  '--vscode-contrastBorder': '#6fc3df',
+  '--vscode-contrastActiveBorder': '#f38518',
+  '--vscode-list-activeSelectionBackground': 'transparent',
+  '--vscode-list-inactiveSelectionBackground': 'transparent',
+  '--vscode-list-hoverBackground': 'transparent',
+};
