@@ -118,11 +118,13 @@ export class GraphView {
     if (!graph) {
       this.caption.textContent = 'No candidate selected';
       this.showLegend();
-      this.clear();
+      // The renderer stays for the next candidate (a new one compiles its programs again).
+      this.blank();
+      this.renderer?.refresh();
       return;
     }
     const edgeNote = graph.truncated
-      ? ` (first ${graph.source.length.toLocaleString()} of ${graph.totalEdges.toLocaleString()} links shown)`
+      ? ` (${graph.source.length.toLocaleString()} of ${graph.totalEdges.toLocaleString()} links shown)`
       : '';
     this.caption.textContent = `${graph.memberCount} members, ${graph.nodes.ids.length - graph.memberCount} neighbours, ${graph.source.length} links${edgeNote}`;
     if (this.unavailable) return;
@@ -164,9 +166,14 @@ export class GraphView {
   }
 
   private clear(): void {
-    this.stopLayout();
+    this.blank();
     this.renderer?.kill();
     this.renderer = null;
+  }
+
+  /** Nothing to draw: no layout running, no scene, no box. */
+  private blank(): void {
+    this.stopLayout();
     this.source.scene = null;
     this.shownKey = '';
     this.tooltip.hidden = true;
