@@ -316,7 +316,15 @@ export class GraphView {
       renderer = new Sigma(frame, this.stage, {
         // allowInvalidContainer: the graph may be (re)drawn while another queue's tab hides it;
         // becameVisible() sizes it once it shows again.
-        settings: { renderLabels: false, stagePadding: 16, itemSizesReference: 'screen', allowInvalidContainer: true },
+        // Zoom bounded at 50× in (discs stay well under the point sizes GPUs draw) and 20× out.
+        settings: {
+          renderLabels: false,
+          stagePadding: 16,
+          itemSizesReference: 'screen',
+          allowInvalidContainer: true,
+          minCameraRatio: 0.02,
+          maxCameraRatio: 20,
+        },
       });
       renderer.addCustomLayerProgram('neighbourhood', 'edges', (gl) => new SceneLayer(gl, renderer, this.source));
     } catch (error) {

@@ -73,13 +73,14 @@ void main() { fragColour = u_colour; }
 
 const nodeVertex = `${vertexHeader}
 uniform float u_pointScale;
+uniform float u_maxPointSize;
 in float a_size;
 in vec4 a_colour;
 out vec4 v_colour;
 out float v_diameter;
 void main() {
   gl_Position = clipPosition();
-  v_diameter = a_size * u_pointScale + 1.0;
+  v_diameter = min(a_size * u_pointScale + 1.0, u_maxPointSize);
   gl_PointSize = v_diameter;
   v_colour = a_colour;
 }
@@ -132,12 +133,15 @@ export class SceneLayer {
   private uploadedScene: GraphScene | null = null;
   private uploadedPositions = -1;
   private uploadedColours = -1;
+  /** The largest point this GPU draws: the standard promises only 1 px, GPUs commonly give 255 to 1,024 (from memory). */
+  private readonly maxPointSize: number;
 
   constructor(
     private readonly gl: WebGL2RenderingContext,
     private readonly renderer: Sigma,
     private readonly source: SceneSource,
   ) {
+    this.maxPointSize = (gl.getParameter(gl.ALIASED_POINT_SIZE_RANGE) as Float32Array | null)?.[1] ?? 64;
     this.linkProgram = compile(gl, linkVertex, linkFragment);
     this.nodeProgram = compile(gl, nodeVertex, nodeFragment);
     this.positionBuffer = gl.createBuffer();
@@ -221,6 +225,7 @@ export class SceneLayer {
     }
     setView(this.nodeProgram);
     gl.uniform1f(gl.getUniformLocation(this.nodeProgram, 'u_pointScale'), 2 * scales.pixelsPerSize * params.pixelRatio);
+    gl.uniform1f(gl.getUniformLocation(this.nodeProgram, 'u_maxPointSize'), this.maxPointSize);
     gl.bindVertexArray(this.nodeVao);
     const count = nodeCount(scene);
     if (count > scene.memberCount) gl.drawArrays(gl.POINTS, scene.memberCount, count - scene.memberCount);
