@@ -31,7 +31,9 @@ const nodeTargets = [
   { entry: 'demo-data/generator/main.ts', out: 'dist/demo-generator.js' },
 ].filter((t) => existsSync(t.entry));
 
-const browserTargets = [{ entry: 'webview/main.ts', out: 'dist/webview.js' }].filter((t) => existsSync(t.entry));
+// In a folder of its own: the review panel's localResourceRoots name that folder (and media/), so
+// the webview can load nothing of the extension host's, the engine's or the CLI's bundles.
+const browserTargets = [{ entry: 'webview/main.ts', out: 'dist/webview/webview.js' }].filter((t) => existsSync(t.entry));
 
 const contexts = [];
 for (const target of nodeTargets) {

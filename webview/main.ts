@@ -1,4 +1,4 @@
-// Entry of the review panel's webview (bundled to dist/webview.js as an IIFE by esbuild.mjs).
+// Entry of the review panel's webview (bundled to dist/webview/webview.js as an IIFE by esbuild.mjs).
 // Only the web components the panel uses are imported.
 import '@vscode-elements/elements/dist/vscode-button/index.js';
 import '@vscode-elements/elements/dist/vscode-option/index.js';

@@ -4,7 +4,7 @@
 // does not govern, so style-src needs no 'unsafe-inline'.
 
 export interface ReviewHtmlParts {
-  /** webview.asWebviewUri(dist/webview.js).toString() */
+  /** webview.asWebviewUri(dist/webview/webview.js).toString() */
   scriptUri: string;
   /** webview.asWebviewUri(media/review.css).toString() */
   styleUri: string;

@@ -32,7 +32,7 @@ export function requireChromium(): void {
 
 let bundle: string | null = null;
 
-/** Bundles webview/main.ts with the options esbuild.mjs uses for dist/webview.js, so the test sees the current source. */
+/** Bundles webview/main.ts with the options esbuild.mjs uses for dist/webview/webview.js, so the test sees the current source. */
 export async function webviewBundle(): Promise<string> {
   if (bundle) return bundle;
   mkdirSync(bundleFolder, { recursive: true });
@@ -93,7 +93,7 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
   const script = await webviewBundle();
   const css = readFileSync(path.join(projectRoot, 'media', 'review.css'), 'utf8');
   const html = reviewPanelHtml({
-    scriptUri: `${origin}/dist/webview.js`,
+    scriptUri: `${origin}/dist/webview/webview.js`,
     styleUri: `${origin}/media/review.css`,
     cspSource: origin,
     nonce: 'testNonce0123456789abcdef',
@@ -103,7 +103,7 @@ export async function openPanel(browser: Browser, options: PanelOptions): Promis
   await page.route(`${origin}/**`, (route) => {
     const url = new URL(route.request().url());
     if (url.pathname === '/index.html') return route.fulfill({ contentType: 'text/html', body: html });
-    if (url.pathname === '/dist/webview.js') return route.fulfill({ contentType: 'text/javascript', body: script });
+    if (url.pathname === '/dist/webview/webview.js') return route.fulfill({ contentType: 'text/javascript', body: script });
     if (url.pathname === '/media/review.css') return route.fulfill({ contentType: 'text/css', body: css });
     return route.fulfill({ status: 404, body: 'not found' });
   });

@@ -93,7 +93,8 @@ export class ReviewPanels implements vscode.Disposable {
     return {
       enableScripts: true,
       enableFindWidget: true,
-      localResourceRoots: [vscode.Uri.joinPath(root, 'dist'), vscode.Uri.joinPath(root, 'media')],
+      // The webview bundle's own folder and the stylesheet's: nothing else of the extension.
+      localResourceRoots: [vscode.Uri.joinPath(root, 'dist', 'webview'), vscode.Uri.joinPath(root, 'media')],
     };
   }
 
@@ -113,7 +114,7 @@ export class ReviewPanels implements vscode.Disposable {
   private html(webview: vscode.Webview, target: ReviewTarget): string {
     const root = this.context.extensionUri;
     return reviewPanelHtml({
-      scriptUri: webview.asWebviewUri(vscode.Uri.joinPath(root, 'dist', 'webview.js')).toString(),
+      scriptUri: webview.asWebviewUri(vscode.Uri.joinPath(root, 'dist', 'webview', 'webview.js')).toString(),
       styleUri: webview.asWebviewUri(vscode.Uri.joinPath(root, 'media', 'review.css')).toString(),
       cspSource: webview.cspSource,
       nonce: newNonce(),
