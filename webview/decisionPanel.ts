@@ -10,7 +10,8 @@ export type FormKind = 'name' | 'mergeInto' | 'mergeWith' | 'split' | 'move';
 const newClassOption = '__new-class__';
 
 export interface DecisionPanelEvents {
-  decide(decision: DecisionRequest): void;
+  /** False when it was not sent (the previous decision is still being recorded). */
+  decide(decision: DecisionRequest): boolean;
   undo(): void;
   redo(): void;
   selectedMembers(): string[];
@@ -305,7 +306,7 @@ export class DecisionPanel {
         break;
       }
     }
-    this.close();
-    this.events.decide(decision);
+    // The form stays, with what was typed, when the decision could not be sent yet.
+    if (this.events.decide(decision)) this.close();
   }
 }

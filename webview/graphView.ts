@@ -145,7 +145,11 @@ export class GraphView {
   }
 
   zoomToFit(): void {
-    void this.renderer?.getCamera().reset({ duration: 200 });
+    const renderer = this.renderer;
+    if (!renderer) return;
+    // The frame stops following the layout once the view was moved: fit the graph as it is now.
+    if (this.source.scene) renderer.setCustomBBox(sceneExtent(this.source.scene)).refresh();
+    void renderer.getCamera().reset({ duration: 200 });
   }
 
   dispose(): void {

@@ -251,6 +251,8 @@ export class MemberTable {
 
   /** Keyboard use of the table: move the active row, select, show its node. */
   private onKey(event: KeyboardEvent): void {
+    // A row's own checkbox keeps its keys (Space ticks that row).
+    if (event.target instanceof HTMLInputElement) return;
     if (event.ctrlKey || event.metaKey || event.altKey || this.order.length === 0) return;
     const page = Math.max(1, Math.floor(this.viewport.clientHeight / rowHeight) - 1);
     const moves: Record<string, number> = { ArrowDown: 1, ArrowUp: -1, PageDown: page, PageUp: -page };

@@ -41,6 +41,8 @@ export class QueueView {
 
   show(queue: QueueEntry[], currentId: string | null, pending: PendingDecisionView[]): void {
     this.shown = { queue, currentId, pending };
+    // The list is built anew: the focus goes back to the same candidate's button.
+    const focused = this.list.contains(document.activeElement) ? (document.activeElement as HTMLElement).dataset.candidate : undefined;
     replaceChildren(
       this.list,
       ...queue.map((entry) => {
@@ -67,6 +69,7 @@ export class QueueView {
         return el('li', {}, button);
       }),
     );
+    if (focused !== undefined) this.list.querySelector<HTMLElement>(`[data-candidate="${CSS.escape(focused)}"]`)?.focus();
     this.pendingTitle.textContent = `Pending decisions (${pending.length})`;
     replaceChildren(
       this.pending,

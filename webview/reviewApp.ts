@@ -56,16 +56,17 @@ export class ReviewApp {
     });
     this.decisions = new DecisionPanel({
       decide: (decision) => this.change(() => this.host.post({ type: 'decide', decision }), 'Recording decision…'),
-      undo: () => this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
-      redo: () => this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
+      undo: () => void this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
+      redo: () => void this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
       selectedMembers: () => this.table.selectedIds(),
     });
     this.secondLook = new SecondLookPanel(
       {
-        decide: (decision) => this.change(() => this.host.post({ type: 'decide', decision }), 'Recording decision…'),
+        // Each of these names its own node and the queue moves on at once: never held back.
+        decide: (decision) => this.busy(this.host.post({ type: 'decide', decision }), 'Recording decision…'),
         load: () => this.loadSecondLook(),
-        undo: () => this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
-        redo: () => this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
+        undo: () => void this.change(() => this.host.post({ type: 'undo' }), 'Undoing…'),
+        redo: () => void this.change(() => this.host.post({ type: 'redo' }), 'Redoing…'),
         currentChanged: (kind, node) =>
           this.host.updateState({ secondLookNode: { ...this.host.state.secondLookNode, [kind]: node ?? undefined } }),
       },
@@ -277,13 +278,17 @@ export class ReviewApp {
   }
 
   /**
-   * A decision, undo or redo: one at a time. A second one before the host's answer (a double
-   * press) would act on the state the first one changes: it is dropped.
+   * A candidate decision, undo or redo: one at a time. A second one before the host's answer (a
+   * double press) would act on the state the first one changes: it is not sent (false).
    */
-  private change(post: () => number, message: string): void {
-    if (this.changing) return;
+  private change(post: () => number, message: string): boolean {
+    if (this.changing) {
+      this.setStatus('Still recording the previous decision…');
+      return false;
+    }
     this.changing = true;
     this.busy(post(), message);
+    return true;
   }
 
   private setStatus(message: string, isError = false): void {

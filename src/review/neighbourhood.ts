@@ -67,10 +67,13 @@ export function neighbourhoodOf(adjacency: CsrMatrix, members: ArrayLike<number>
     cursor[i] = rowPtr[node];
     for (let e = rowPtr[node]; e < rowPtr[node + 1]; e++) if (isOutside(e)) totalEdges++;
   }
-  let progress = true;
-  while (progress && source.length < edgeCap) {
-    progress = false;
-    for (let i = 0; i < memberCount && source.length < edgeCap; i++) {
+  // Members with outside links left; each turn drops the ones it finds exhausted, so a member of
+  // very high degree costs its own links, not its links times the member count.
+  let waiting = Array.from({ length: memberCount }, (_, i) => i);
+  while (waiting.length > 0 && source.length < edgeCap) {
+    const still: number[] = [];
+    for (const i of waiting) {
+      if (source.length >= edgeCap) break;
       const end = rowPtr[nodes[i] + 1];
       while (cursor[i] < end && !isOutside(cursor[i])) cursor[i]++;
       if (cursor[i] >= end) continue;
@@ -83,8 +86,9 @@ export function neighbourhoodOf(adjacency: CsrMatrix, members: ArrayLike<number>
       }
       source.push(i);
       target.push(at);
-      progress = true;
+      still.push(i);
     }
+    waiting = still;
   }
   return { nodes, memberCount, source, target, totalEdges };
 }

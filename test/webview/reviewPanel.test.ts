@@ -260,6 +260,11 @@ describe('webview/review panel (Chromium)', function () {
     assert.deepEqual(checked, [ids[1], ids[2]]);
     await page.keyboard.press('Enter');
     await page.locator('#graph-tooltip .tooltip-title', { hasText: ids[2] ?? '' }).waitFor();
+    // Space on a row's own checkbox ticks that row, not the active one.
+    await page.locator('.member-rows .member-row').nth(4).locator('input').focus();
+    await page.keyboard.press(' ');
+    await page.waitForFunction(() => /· 3 selected$/.test(document.querySelector('#member-count')?.textContent ?? ''));
+    await page.locator('#member-viewport').focus();
     await page.keyboard.press('End');
     assert.equal(await page.locator('.member-row.active').getAttribute('aria-rowindex'), '18');
     const mark = p.posted.length;
@@ -268,7 +273,7 @@ describe('webview/review panel (Chromium)', function () {
     await page.keyboard.press('Enter');
     const move = await decisionAfter(p, mark);
     assert.equal(move.kind, 'move-members');
-    assert.deepEqual([...(move.members as string[])].sort(), [ids[1], ids[2]].sort());
+    assert.deepEqual([...(move.members as string[])].sort(), [ids[1], ids[2], ids[4]].sort());
   });
 
   it('records one decision for a double press made before the host answers', async () => {

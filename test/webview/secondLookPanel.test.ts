@@ -124,6 +124,26 @@ describe('webview/second-look queues (Chromium)', function () {
     assert.deepEqual(await p.violations(), []);
   });
 
+  it('keeps two doubtful labels pressed in quick succession (each decision names its own node)', async () => {
+    const p = await open();
+    const doubts = inputs.queues.doubts!.doubts;
+    await p.page.locator('#tab-doubts').click();
+    await loadQueues(p);
+    const mark = p.posted.length;
+    // Two presses in one task: the second comes before the host answers the first.
+    await p.page.evaluate(() => {
+      for (let k = 0; k < 2; k++) document.dispatchEvent(new KeyboardEvent('keydown', { key: 'y', code: 'KeyY', bubbles: true }));
+    });
+    await waitForStatus(p, doubts[0].node, 'kept');
+    await waitForStatus(p, doubts[1].node, 'kept');
+    const kept = p.posted
+      .slice(mark)
+      .filter((m) => (m as { type: string }).type === 'decide')
+      .map((m) => (m as { decision: { node: string } }).decision.node);
+    assert.deepEqual(kept, [doubts[0].node, doubts[1].node]);
+    assert.equal(await p.page.locator('.second-look-item.current').getAttribute('data-node'), doubts[2].node);
+  });
+
   it('gives an unlabelled node of the slice the suggested class or one chosen from the list (G), and returns to the queue it showed', async () => {
     const p = await open();
     const { page } = p;
