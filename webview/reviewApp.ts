@@ -201,7 +201,7 @@ export class ReviewApp {
       snapshot.canRedo,
     );
     this.decisions.selectionChanged(this.table.selectedIds().length);
-    this.threshold.setBaseline(snapshot.threshold, saved.threshold);
+    this.threshold.setBaseline(snapshot.threshold, saved.threshold, snapshot.previewsOff);
     this.root.querySelector('#apply-decisions')?.toggleAttribute('disabled', snapshot.pending.length === 0);
     this.host.updateState({ candidateId: current?.id });
     // Newly computed queues (the command or the button) come into view.

@@ -38,6 +38,8 @@ export class ThresholdControls {
   );
   private readonly lambda = slider('threshold-lambda', 'λ', 0, 1, 0.05, 'Neighbour smoothing weight of the novelty scores');
   private readonly result = el('output', { class: 'threshold-result', id: 'threshold-result', 'aria-live': 'polite' });
+  private readonly off = el('span', { class: 'threshold-off', id: 'threshold-off', hidden: true });
+  private readonly reset: HTMLElement;
   private setting: ThresholdSetting | null = null;
   private baseline: ThresholdPreviewResult | null = null;
   private inFlight: number | null = null;
@@ -60,6 +62,7 @@ export class ThresholdControls {
     this.quantile.input.addEventListener('input', () => this.update({ quantile: Number(this.quantile.input.value) }));
     this.lambda.input.addEventListener('input', () => this.update({ lambda: Number(this.lambda.input.value) }));
     const reset = el('vscode-button', { id: 'threshold-reset', secondary: true, title: 'Back to the run’s own setting' }, 'Reset');
+    this.reset = reset;
     reset.addEventListener('click', () => {
       if (this.baseline) this.update(this.baseline.setting);
     });
@@ -72,23 +75,39 @@ export class ThresholdControls {
       this.lambda.row,
       reset,
       this.result,
+      this.off,
     );
   }
 
-  /** The run's own setting from a snapshot; `saved` (view state) wins when the curator had moved the controls. */
-  setBaseline(baseline: ThresholdPreviewResult | null, saved?: ThresholdSetting): void {
+  /**
+   * The run's own setting from a snapshot; `saved` (view state) wins when the curator had moved the
+   * controls. With `previewsOff` (the host's reason) the controls show the run and stay still.
+   */
+  setBaseline(baseline: ThresholdPreviewResult | null, saved?: ThresholdSetting, previewsOff?: string): void {
     const first = this.baseline === null;
     this.baseline = baseline;
-    this.element.classList.toggle('disabled', baseline === null);
-    for (const s of [this.alpha, this.quantile, this.lambda]) s.input.disabled = baseline === null;
+    const still = baseline === null || previewsOff !== undefined;
+    this.element.classList.toggle('disabled', still);
+    for (const s of [this.alpha, this.quantile, this.lambda]) s.input.disabled = still;
+    this.mode.toggleAttribute('disabled', still);
+    this.reset.toggleAttribute('disabled', still);
+    this.off.hidden = previewsOff === undefined;
+    this.off.textContent = previewsOff ? `· ${previewsOff.charAt(0).toUpperCase()}${previewsOff.slice(1)}` : '';
+    this.off.title = previewsOff ?? '';
+    // A run scored with a wider α than the slider's usual range gets a slider that reaches it.
+    if (baseline) this.alpha.input.max = String(Math.max(10, Math.ceil(baseline.setting.alpha), Math.ceil(saved?.alpha ?? 0)));
+    if (baseline && previewsOff) {
+      this.setting = { ...baseline.setting };
+      this.syncInputs();
+      this.showResult(baseline, true);
+      return;
+    }
     if (!baseline) {
       this.result.textContent = 'Previews need the run’s scores.';
       return;
     }
     if (first) {
       this.setting = { ...(saved ?? baseline.setting) };
-      // A run scored with a wider α than the slider's usual range gets a slider that reaches it.
-      this.alpha.input.max = String(Math.max(10, Math.ceil(this.setting.alpha), Math.ceil(baseline.setting.alpha)));
       this.syncInputs();
       if (saved && JSON.stringify(saved) !== JSON.stringify(baseline.setting)) this.send();
       else this.showResult(baseline, true);

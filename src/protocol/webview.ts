@@ -187,6 +187,8 @@ export interface ReviewSnapshot {
   canRedo: boolean;
   /** The run's own setting and its counts; null when the host has no scores to preview with. */
   threshold: ThresholdPreviewResult | null;
+  /** Why moving the setting cannot preview (the controls then stay still); absent when it can. */
+  previewsOff?: string;
   /** The second-look queues; absent until they are computed for this review. */
   secondLook?: SecondLookView;
 }

@@ -63,12 +63,20 @@ export class ReviewController {
 
   /** Sends the whole state, e.g. after the host itself changed the session. */
   postSnapshot(): void {
-    this.actions.post({ type: 'snapshot', snapshot: buildSnapshot(this.session, this.baseline) });
+    this.actions.post({ type: 'snapshot', snapshot: buildSnapshot(this.session, this.baseline, this.previewsOff()) });
   }
 
   /** Persists and re-sends the session after the host changed it (e.g. new second-look queues). */
   sessionChanged(): void {
     this.changed();
+  }
+
+  /** Why previews cannot be made here; undefined when they can. */
+  private previewsOff(): string | undefined {
+    if (this.actions.previewThreshold) return undefined;
+    return this.actions.previewUnavailable
+      ? `threshold previews are off: ${this.actions.previewUnavailable}; score the slice again to use them`
+      : 'threshold previews need the run’s scores; score the slice again to use them';
   }
 
   private changed(): void {
@@ -98,12 +106,7 @@ export class ReviewController {
         this.changed();
         return;
       case 'previewThreshold': {
-        if (!this.actions.previewThreshold)
-          throw new ReviewError(
-            this.actions.previewUnavailable
-              ? `threshold previews are off: ${this.actions.previewUnavailable}; score the slice again to use them`
-              : 'threshold previews need the run’s scores; score the slice again to use them',
-          );
+        if (!this.actions.previewThreshold) throw new ReviewError(this.previewsOff() as string);
         const preview = await this.actions.previewThreshold(message.setting);
         this.actions.post({ type: 'thresholdPreview', requestId: message.requestId, preview });
         return;

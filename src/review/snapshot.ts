@@ -41,7 +41,11 @@ export function describeDecision(decision: Decision): string {
   }
 }
 
-export function buildSnapshot(session: ReviewSession, threshold: ThresholdPreviewResult | null = null): ReviewSnapshot {
+export function buildSnapshot(
+  session: ReviewSession,
+  threshold: ThresholdPreviewResult | null = null,
+  previewsOff?: string,
+): ReviewSnapshot {
   const { context } = session;
   const classes: ClassView[] = session.classes().map((c, index) => ({ name: c.name, colour: index, status: c.status }));
   const classIndex = new Map(classes.map((c, index) => [c.name, index]));
@@ -109,6 +113,7 @@ export function buildSnapshot(session: ReviewSession, threshold: ThresholdPrevie
     canUndo: session.canUndo,
     canRedo: session.canRedo,
     threshold,
+    ...(previewsOff ? { previewsOff } : {}),
     ...(secondLook ? { secondLook } : {}),
   };
 }

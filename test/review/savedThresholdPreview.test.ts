@@ -115,10 +115,12 @@ describe('review/threshold preview from a saved run', function () {
         setting: settingsTried[0],
       });
       const failed = outcome.posts.find((m) => m.type === 'error');
-      assert.match(
-        failed?.type === 'error' ? failed.message : '',
-        /threshold previews are off: .*threshold-fit\.json:2:\d+: .*score the slice again/,
-      );
+      const reason = /threshold previews are off: .*threshold-fit\.json:2:\d+: .*score the slice again/;
+      assert.match(failed?.type === 'error' ? failed.message : '', reason);
+      // The panel learns it with its first snapshot, before any move of the controls.
+      const ready = await registry.message(opened.reviewId, { type: 'ready' });
+      const snapshot = ready.posts.find((m) => m.type === 'snapshot');
+      assert.match(snapshot?.type === 'snapshot' ? (snapshot.snapshot.previewsOff ?? '') : '', reason);
     } finally {
       await fs.writeFile(saved, original);
     }

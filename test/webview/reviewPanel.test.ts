@@ -530,6 +530,24 @@ describe('webview/review panel (Chromium)', function () {
     assert.equal(await p.page.locator('#threshold-alpha-value').textContent(), '24.0');
   });
 
+  it('shows why previews are off and keeps the controls still, rather than failing on every move', async () => {
+    const p = await open({
+      baseline: {
+        setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
+        rejected: 38,
+        scored: 148,
+        candidatesKept: 3,
+        ungroupedRejected: 0,
+      },
+    });
+    const off = p.page.locator('#threshold-off');
+    await off.waitFor();
+    assert.equal(await off.textContent(), '· Threshold previews need the run’s scores; score the slice again to use them');
+    assert.equal(await p.page.locator('#threshold-alpha').isDisabled(), true);
+    assert.equal(await p.page.locator('#threshold-lambda').isDisabled(), true);
+    assert.match((await p.page.locator('#threshold-result').textContent()) ?? '', /^This run: 38 of 148 nodes/);
+  });
+
   it('returns to the candidate, search and rejection setting it had before being hidden', async () => {
     const second = scenarioCandidates(scenario)[1].id;
     const p = await open({ savedState: { candidateId: second, search: 'feathers', sortColumn: 'id', sortDescending: false } });
