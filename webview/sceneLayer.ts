@@ -135,6 +135,9 @@ export class SceneLayer {
   private uploadedColours = -1;
   /** The largest point this GPU draws: the standard promises only 1 px, GPUs commonly give 255 to 1,024 (from memory). */
   private readonly maxPointSize: number;
+  /** Uniform locations, looked up once per program rather than every frame. */
+  private readonly linkUniforms: Record<'u_matrix' | 'u_normalise' | 'u_colour', WebGLUniformLocation | null>;
+  private readonly nodeUniforms: Record<'u_matrix' | 'u_normalise' | 'u_pointScale' | 'u_maxPointSize', WebGLUniformLocation | null>;
 
   constructor(
     private readonly gl: WebGL2RenderingContext,
@@ -144,6 +147,10 @@ export class SceneLayer {
     this.maxPointSize = (gl.getParameter(gl.ALIASED_POINT_SIZE_RANGE) as Float32Array | null)?.[1] ?? 64;
     this.linkProgram = compile(gl, linkVertex, linkFragment);
     this.nodeProgram = compile(gl, nodeVertex, nodeFragment);
+    const locate = <K extends string>(program: WebGLProgram, names: K[]) =>
+      Object.fromEntries(names.map((name) => [name, gl.getUniformLocation(program, name)])) as Record<K, WebGLUniformLocation | null>;
+    this.linkUniforms = locate(this.linkProgram, ['u_matrix', 'u_normalise', 'u_colour']);
+    this.nodeUniforms = locate(this.nodeProgram, ['u_matrix', 'u_normalise', 'u_pointScale', 'u_maxPointSize']);
     this.positionBuffer = gl.createBuffer();
     this.sizeBuffer = gl.createBuffer();
     this.colourBuffer = gl.createBuffer();
@@ -212,20 +219,20 @@ export class SceneLayer {
     gl.enable(gl.BLEND);
     gl.blendFunc(gl.ONE, gl.ONE_MINUS_SRC_ALPHA);
     gl.disable(gl.DEPTH_TEST);
-    const setView = (program: WebGLProgram) => {
+    const setView = (program: WebGLProgram, uniforms: Record<'u_matrix' | 'u_normalise', WebGLUniformLocation | null>) => {
       gl.useProgram(program);
-      gl.uniformMatrix3fv(gl.getUniformLocation(program, 'u_matrix'), false, params.matrix);
-      gl.uniform3f(gl.getUniformLocation(program, 'u_normalise'), scales.offsetX, scales.offsetY, scales.scale);
+      gl.uniformMatrix3fv(uniforms.u_matrix, false, params.matrix);
+      gl.uniform3f(uniforms.u_normalise, scales.offsetX, scales.offsetY, scales.scale);
     };
     if (scene.links.length > 0 && !(this.renderer.getSetting('hideEdgesOnMove') && viewMoving(this.renderer))) {
-      setView(this.linkProgram);
-      gl.uniform4fv(gl.getUniformLocation(this.linkProgram, 'u_colour'), this.source.linkColour);
+      setView(this.linkProgram, this.linkUniforms);
+      gl.uniform4fv(this.linkUniforms.u_colour, this.source.linkColour);
       gl.bindVertexArray(this.linkVao);
       gl.drawElements(gl.LINES, scene.links.length, gl.UNSIGNED_INT, 0);
     }
-    setView(this.nodeProgram);
-    gl.uniform1f(gl.getUniformLocation(this.nodeProgram, 'u_pointScale'), 2 * scales.pixelsPerSize * params.pixelRatio);
-    gl.uniform1f(gl.getUniformLocation(this.nodeProgram, 'u_maxPointSize'), this.maxPointSize);
+    setView(this.nodeProgram, this.nodeUniforms);
+    gl.uniform1f(this.nodeUniforms.u_pointScale, 2 * scales.pixelsPerSize * params.pixelRatio);
+    gl.uniform1f(this.nodeUniforms.u_maxPointSize, this.maxPointSize);
     gl.bindVertexArray(this.nodeVao);
     const count = nodeCount(scene);
     if (count > scene.memberCount) gl.drawArrays(gl.POINTS, scene.memberCount, count - scene.memberCount);

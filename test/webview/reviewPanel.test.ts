@@ -47,6 +47,14 @@ describe('webview/review panel (Chromium)', function () {
       .map((q) => q.candidate.id);
   const decisionAfter = async (p: Panel, mark: number) =>
     (await p.nextPosted(mark, (m) => m.type === 'decide', 'a decision')).decision as Record<string, unknown>;
+  /** The panel with its first candidate's graph drawn, and the graph's area. */
+  const openWithGraph = async () => {
+    const p = await open();
+    await p.page.waitForTimeout(300);
+    return { p, page: p.page, stage: p.page.locator('#graph-stage') };
+  };
+  /** Uncaught errors and console errors of the page, without software WebGL's driver notices. */
+  const pageErrors = (p: Panel) => p.pageErrors.filter((e) => !e.includes('GL Driver'));
   const settled = async (p: Panel, count: number) => {
     await p.page
       .locator('#pending-list li[data-decision]')
@@ -72,17 +80,11 @@ describe('webview/review panel (Chromium)', function () {
     await p.page.locator('#run-layout').click();
     await p.page.waitForTimeout(500);
     assert.deepEqual(await p.violations(), []);
-    assert.deepEqual(
-      p.pageErrors.filter((e) => !e.includes('GL Driver')),
-      [],
-    );
+    assert.deepEqual(pageErrors(p), []);
   });
 
   it('hovering, clicking and double-clicking a drawn node shows, pins and opens that node', async () => {
-    const p = await open();
-    const page = p.page;
-    const stage = page.locator('#graph-stage');
-    await page.waitForTimeout(300);
+    const { p, page, stage } = await openWithGraph();
     // Where the screen shows a node in the first class's colour, the pointer must find a node of
     // that class: what is drawn and what is picked agree.
     const shot = decodePng(await stage.screenshot());
@@ -129,17 +131,11 @@ describe('webview/review panel (Chromium)', function () {
     const deadline = Date.now() + 5000;
     while (!p.opened.includes(nodeId) && Date.now() < deadline) await page.waitForTimeout(50);
     assert.deepEqual(p.opened, [nodeId], 'a double click opens the node under the pointer');
-    assert.deepEqual(
-      p.pageErrors.filter((e) => !e.includes('GL Driver')),
-      [],
-    );
+    assert.deepEqual(pageErrors(p), []);
   });
 
   it('recolours the graph when the theme changes in place', async () => {
-    const p = await open();
-    const page = p.page;
-    const stage = page.locator('#graph-stage');
-    await page.waitForTimeout(300);
+    const { page, stage } = await openWithGraph();
     // The candidate's members have no class: they are drawn in the theme's foreground.
     const neutralDiscs = async (hex: string) => blobsOfColour(decodePng(await stage.screenshot()), hex).filter((b) => b.size >= 9).length;
     assert.ok((await neutralDiscs(lightTheme['--vscode-foreground'])) > 0, 'members in the light foreground');
