@@ -5,7 +5,7 @@ import * as assert from 'node:assert/strict';
 import { mkdirSync, statSync } from 'node:fs';
 import * as path from 'node:path';
 import type { Browser } from 'playwright-core';
-import type { ThresholdSetting } from '../../src/protocol/webview';
+import type { ThresholdPreviewResult, ThresholdSetting } from '../../src/protocol/webview';
 import { createThresholdPreviewer } from '../../src/review/thresholdPreview';
 import { buildScenario, largeScenario, scenarioCandidates, type ReviewScenario } from '../review/reviewScenario';
 import { classColour } from '../../webview/classPalette';
@@ -53,6 +53,14 @@ describe('webview/review panel (Chromium)', function () {
     await p.page.waitForTimeout(300);
     return { p, page: p.page, stage: p.page.locator('#graph-stage') };
   };
+  /** The scenario run's own setting and counts, as a host without a previewer reports them. */
+  const runOwnSetting = (): ThresholdPreviewResult => ({
+    setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
+    rejected: 38,
+    scored: 148,
+    candidatesKept: 3,
+    ungroupedRejected: 0,
+  });
   /** Uncaught errors and console errors of the page, without software WebGL's driver notices. */
   const pageErrors = (p: Panel) => p.pageErrors.filter((e) => !e.includes('GL Driver'));
   const settled = async (p: Panel, count: number) => {
@@ -528,13 +536,7 @@ describe('webview/review panel (Chromium)', function () {
 
   it('shows why previews are off and keeps the controls still, rather than failing on every move', async () => {
     const p = await open({
-      baseline: {
-        setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
-        rejected: 38,
-        scored: 148,
-        candidatesKept: 3,
-        ungroupedRejected: 0,
-      },
+      baseline: runOwnSetting(),
     });
     const off = p.page.locator('#threshold-off');
     await off.waitFor();
@@ -567,13 +569,7 @@ describe('webview/review panel (Chromium)', function () {
       const p = await open({
         theme,
         themeKind: name === 'light' ? 'light' : 'dark',
-        baseline: {
-          setting: { mode: 'alpha', alpha: 3, quantile: 0.1, lambda: 0.5 },
-          rejected: 38,
-          scored: 148,
-          candidatesKept: 3,
-          ungroupedRejected: 0,
-        },
+        baseline: runOwnSetting(),
       });
       const page = p.page;
       const background = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
